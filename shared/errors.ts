@@ -21,3 +21,11 @@ export class EngineError extends Error {
 export function isEngineError(error: unknown): error is EngineError {
   return error instanceof EngineError
 }
+
+/** A non-fatal finding attached to a result: a stable code and a sentence for the user. */
+export interface EngineWarning {
+  /** Stable identifier, e.g. `undersampled`, `time_axis_repaired`. */
+  code: string
+  /** What was seen and what it means for the result. */
+  message: string
+}
