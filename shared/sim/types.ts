@@ -1,0 +1,112 @@
+/**
+ * Types of the synthetic swept-cavity trace generator.
+ *
+ * Entry points (import from `shared/sim/index.ts`):
+ * - `generateSweptTrace(options: SweptTraceOptions): SweptTrace` — `shared/sim/generateSweptTrace.ts`
+ * - `simPresets: Record<string, SweptTraceOptions>` — `shared/sim/simPresets.ts`
+ */
+
+/**
+ * Two-mirror cavity geometry, as in the command line's CAVITY.json
+ * (`null` radius = flat mirror). Structurally the same as the cavity model's input in `shared/cavity/`.
+ */
+export interface CavityGeometry {
+  wavelengthNm: number
+  lengthMm: number
+  roc1Mm: number | null
+  roc2Mm: number | null
+}
+
+export interface SweptTraceOptions {
+  /** One-way Gouy phase ψ in radians; ignored when `cavity` is given (then ψ comes from the geometry). */
+  gouyOneWayRad: number
+  /** Cavity geometry: gives ψ and fsrHz (c / 2L). */
+  cavity?: CavityGeometry
+  /** Cavity finesse (FSR / FWHM), e.g. 50 … 3000. */
+  finesse: number
+  /** Relative power per transverse order, index = order N; normalised by the generator (truth reports shares). */
+  orderPowers: number[]
+  /** Number of samples, 2,500 … 2,000,000. */
+  sampleCount: number
+  /** How many FSRs the sweep part covers (e.g. 2.3). */
+  fsrCount: number
+  /** Fraction of the record spent sweeping; the rest is flyback / turnaround. @default 0.9 */
+  sweepFractionOfRecord?: number
+  /** Optical frequency increasing ('up') or decreasing ('down') with time during the sweep. @default 'up' */
+  direction?: 'up' | 'down'
+  /** Sawtooth (fast flyback) or triangle (reverse sweep). @default 'sawtooth' */
+  rampShape?: 'sawtooth' | 'triangle'
+  /** Fractional piezo nonlinearity: 0.15 → ±15 % local sweep-rate change. The ramp channel stays linear. @default 0 */
+  nonlinearity?: number
+  /** Sample interval in seconds. @default 1e-5 */
+  sampleIntervalSeconds?: number
+  /** Time of the first sample. @default −(sampleCount/2)·sampleIntervalSeconds (trigger centred) */
+  startTimeSeconds?: number
+  /** TEM00 carrier peak height before noise, in volts. @default 1 */
+  peakHeightV?: number
+  /** White-noise rms as a fraction of the TEM00 height. @default 0.003 */
+  noiseFraction?: number
+  /** Digitiser bits (8 → 256 levels over a full scale just above the signal's range). @default none */
+  quantizationBits?: number
+  /** Photodiode dark offset in volts. @default 0.01 */
+  darkOffsetV?: number
+  /** Slow multiplicative drift of the input power across the record (0.05 → ±5 %). @default 0 */
+  driftFraction?: number
+  /** Detector single-pole low-pass time constant in seconds. @default 0 */
+  lowPassTauSeconds?: number
+  /** Phase-modulation frequency in MHz: first-order sidebands at ±f_mod on every carrier order (needs an FSR in Hz). */
+  modulationMHz?: number
+  /** Power in each first-order sideband relative to its carrier. @default 0 (0.05 when modulationMHz is given) */
+  sidebandPowerFraction?: number
+  /** Order N splits into N + 1 sub-peaks spread evenly over this width in FSR units (astigmatic split). @default 0 */
+  astigmatismSplitFsr?: number
+  /** Integrate the intracavity field through the sweep (ring-down oscillation after fast crossings). @default false */
+  ringing?: boolean
+  /** Amplitude of a sinusoidal laser-frequency dither in FSR units. @default 0 */
+  ditherAmplitudeFsr?: number
+  /** Dither frequency in Hz. @default 0 */
+  ditherFrequencyHz?: number
+  /** Also output the ramp-monitor channel. @default true */
+  includeRamp?: boolean
+  /** Seed of the deterministic pseudo-random generator. @default 1 */
+  seed?: number
+}
+
+export interface SimulatedPeakTruth {
+  /** Time of the peak centre on the trace's own time axis, seconds. */
+  t: number
+  /** Transverse order N of the carrier (for a sideband: of the carrier it belongs to). */
+  order: number
+  kind: 'carrier' | 'sideband'
+  /** Relative integrated power (area per FSR, in units of the total carrier power: carriers sum to 1 per FSR). */
+  power: number
+  /** Peak height in volts before drift, low-pass and noise (for a slow sweep). */
+  heightV: number
+}
+
+export interface SweptTraceTruth {
+  /** P0 / Σ P_N over carriers (sidebands excluded). */
+  fundamentalFraction: number
+  /** Carrier power share per order, index = order N, sums to 1. */
+  orderShares: number[]
+  /** Mean TEM00 spacing on the time axis (over the sweep part), seconds. */
+  fsrSeconds: number
+  /** FSR in Hz when known (from `cavity`), else null. */
+  fsrHz: number | null
+  finesse: number
+  gouyOneWayRad: number
+  /** Linewidth (FSR / finesse) in samples at the mean sweep rate. */
+  samplesPerLinewidth: number
+  direction: 'up' | 'down'
+  /** Every simulated peak centre inside the record, in time order. */
+  peaks: SimulatedPeakTruth[]
+}
+
+export interface SweptTrace {
+  tSeconds: Float64Array
+  transmissionV: Float64Array
+  /** Ramp-monitor (piezo drive) channel, or null when `includeRamp` is false. */
+  rampV: Float64Array | null
+  sampleIntervalSeconds: number
+  truth: SweptTraceTruth
+}
