@@ -1,0 +1,64 @@
+// `npm start`: set up everything on a fresh machine and run the app.
+// npm dependencies → Debian's PostgreSQL → a project-local cluster on 127.0.0.1 → schema and demo
+// data → client build → the server. Ctrl-C stops the app and the database cleanly.
+import { spawn, spawnSync } from 'node:child_process'
+import { join } from 'node:path'
+import { LocalPostgres, SetupError, assertPortFree, ensureNodeModules, ensurePostgres, projectRoot, say } from './lib/services.mjs'
+
+const appPort = Number(process.env.PORT ?? 3000)
+const dbPort = Number(process.env.CAVITRACE_DB_PORT ?? 54329)
+const dataDir = process.env.CAVITRACE_DATA_DIR ?? join(projectRoot, '.data', 'dev')
+const tsx = join(projectRoot, 'node_modules', '.bin', 'tsx')
+
+function runStep(label, command, args, env) {
+  say(label)
+  const result = spawnSync(command, args, { cwd: projectRoot, stdio: 'inherit', env })
+  if (result.status !== 0) throw new SetupError(`${label.replace(/…$/, '')} failed (exit ${result.status})`)
+}
+
+async function main() {
+  if (!Number.isInteger(appPort) || appPort < 1 || appPort > 65535) throw new SetupError(`PORT must be a port number 1–65535 (got "${process.env.PORT}")`)
+  await assertPortFree(appPort, 'the app port; set PORT to use another')
+  ensureNodeModules()
+  const cluster = new LocalPostgres({ bin: ensurePostgres(), dir: dataDir, port: dbPort })
+  await cluster.start()
+  let stopped = false
+  const stopDatabase = () => {
+    if (stopped) return
+    stopped = true
+    say('stopping the database…')
+    cluster.stop()
+  }
+
+  try {
+    await cluster.createDatabase('cavitrace')
+    const env = { ...process.env, NODE_ENV: process.env.NODE_ENV ?? 'development', DATABASE_URL: process.env.DATABASE_URL ?? cluster.url('cavitrace'), PORT: String(appPort) }
+    runStep('migrating and seeding the database…', tsx, ['scripts/prepare.ts', '--seed'], env)
+    if (process.env.CAVITRACE_SKIP_BUILD !== '1') runStep('building the client…', join(projectRoot, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'], env)
+
+    const server = spawn(tsx, ['server/main.ts'], { cwd: projectRoot, env, stdio: ['ignore', 'pipe', 'inherit'] })
+    server.stdout.on('data', (chunk) => {
+      const text = chunk.toString()
+      const match = /CAVITRACE_LISTENING (\S+)/.exec(text)
+      if (match) {
+        say(`Cavitrace is running at ${match[1]}/`)
+        say('Ctrl-C stops the app and its database.')
+      }
+      process.stdout.write(text.replace(/CAVITRACE_LISTENING \S+\n?/, ''))
+    })
+    const forward = (signal) => () => server.kill(signal)
+    process.on('SIGINT', forward('SIGINT'))
+    process.on('SIGTERM', forward('SIGTERM'))
+    const code = await new Promise((resolve) => server.on('exit', (exitCode) => resolve(exitCode ?? 0)))
+    stopDatabase()
+    process.exit(code)
+  } catch (error) {
+    stopDatabase()
+    throw error
+  }
+}
+
+main().catch((error) => {
+  process.stderr.write(`[cavitrace] ${error instanceof SetupError ? error.message : error?.stack ?? error}\n`)
+  process.exit(1)
+})

@@ -1,0 +1,27 @@
+/** Start the real server in-process on port 0 against a fresh test database. */
+import pino from 'pino'
+import { loadConfig, type AppConfig } from '../../server/config'
+import { startServer, type RunningServer } from '../../server/server'
+import { createTestDatabase, type TestDatabase } from './testDatabase'
+
+export interface TestServer extends RunningServer {
+  database: TestDatabase
+  config: AppConfig
+  /** Stop the server and drop its database. */
+  close(): Promise<void>
+}
+
+export async function startTestServer(env: Record<string, string> = {}): Promise<TestServer> {
+  const database = await createTestDatabase()
+  const config = loadConfig({ NODE_ENV: 'test', PORT: '0', LOG_LEVEL: 'silent', DATABASE_URL: database.url, CLIENT_DIR: process.env.CLIENT_DIR ?? 'dist/client', ...env })
+  const running = await startServer(config, { logger: pino({ level: 'silent' }) })
+  return {
+    ...running,
+    database,
+    config,
+    async close() {
+      await running.stop()
+      await database.drop()
+    },
+  }
+}
