@@ -1,0 +1,138 @@
+import type { CavityModel } from '../cavity'
+import type { EngineWarning } from '../errors'
+import type { MeasuredResonance } from '../peaks/measureResonances'
+import type { OrderLabel } from '../orders/assignOrders'
+import { predictOrderOffsets } from '../orders/predictOrderOffsets'
+
+export interface WarningInputs {
+  part: Float64Array
+  signal: Float64Array
+  sigmaV: number
+  quantumV: number
+  measured: MeasuredResonance[]
+  labels: OrderLabel[]
+  fundamentals: number[]
+  samplesPerLinewidth: number
+  gouyRad: number
+  linewidthFsr: number
+  toleranceFsr: number
+  model: CavityModel
+  orders: Record<string, number>
+}
+
+/** Highest order checked for degeneracy warnings (higher ones rarely carry power worth a warning). */
+const DEGENERACY_MAX_ORDER = 6
+
+/** The findings that qualify the result, each with a stable code (see the result's `warnings`). */
+export function collectWarnings(input: WarningInputs): EngineWarning[] {
+  const w: EngineWarning[] = []
+  const { measured, labels, fundamentals } = input
+  if (input.samplesPerLinewidth < 5) {
+    w.push({
+      code: 'undersampled',
+      message: `Only ${input.samplesPerLinewidth.toFixed(1)} samples per TEM00 linewidth (5 or more wanted): shares use integrated power; linewidth and finesse are rough. Record with a shorter sample interval or a slower sweep.`,
+    })
+  }
+  const saturated = saturation(input.part, measured, input.quantumV)
+  if (saturated) w.push({ code: 'saturated', message: saturated })
+  if (fundamentals.length < 2) {
+    w.push({
+      code: 'single_fundamental',
+      message: 'Fewer than two TEM00 resonances in the sweep: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. Sweep over more than one FSR.',
+    })
+  }
+  const degenerate = degeneracy(input)
+  if (degenerate) w.push({ code: 'degenerate_orders', message: degenerate })
+  const lobed = fundamentals.filter((k) => measured[k].lobeCount >= 3)
+  if (lobed.length > 0) {
+    const trailing = lobed.filter((k) => leadingLobeIsTallest(input.signal, measured[k]))
+    if (trailing.length * 2 >= lobed.length) {
+      w.push({
+        code: 'ringing',
+        message: `${lobed.length} TEM00 resonance(s) show a decaying oscillation after the peak: the sweep crosses the linewidth faster than the cavity storage time. Shares use integrated power; the fitted linewidth is too wide. Sweep more slowly.`,
+      })
+    } else {
+      w.push({
+        code: 'fast_structure',
+        message: `${lobed.length} TEM00 resonance(s) carry fast structure (several maxima inside one resonance, e.g. a laser-frequency dither): each is measured as one resonance by its integrated power.`,
+      })
+    }
+  }
+  const heights = fundamentals.map((k) => measured[k].heightV).filter((h) => h > 10 * input.sigmaV)
+  if (heights.length >= 2) {
+    const ratio = Math.max(...heights) / Math.min(...heights)
+    if (ratio > 1.3) {
+      w.push({
+        code: 'unsteady_fundamental',
+        message: `TEM00 heights vary ${ratio.toFixed(1)}-fold across the sweep (an unsteady laser or coupling): the TEM00 fraction is an average over the sweep.`,
+      })
+    }
+  }
+  const unassigned = labels.filter((l) => l.kind === 'unassigned').length
+  if (unassigned >= 3 && unassigned > 0.2 * labels.length) {
+    w.push({
+      code: 'many_unassigned',
+      message: `${unassigned} of ${labels.length} resonances match no predicted order: check the cavity length and mirror radii (or a second laser mode / modulation frequency).`,
+    })
+  }
+  return w
+}
+
+function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV: number): string | null {
+  let top = -Infinity
+  for (let i = 0; i < part.length; i++) if (part[i] > top) top = part[i]
+  let longestRun = 0
+  let run = 0
+  for (let i = 0; i < part.length; i++) {
+    run = part[i] === top ? run + 1 : 0
+    if (run > longestRun) longestRun = run
+  }
+  // A real peak touches its maximum once; a clipped digitiser holds it, or stops several peaks at one code.
+  let peaksAtTop = 0
+  for (const m of measured) {
+    const c = Math.round(m.centerIndex)
+    const reach = Math.max(2, Math.ceil(2 * m.fwhmSamples))
+    for (let i = Math.max(0, c - reach); i <= Math.min(part.length - 1, c + reach); i++) {
+      if (part[i] === top) { peaksAtTop++; break }
+    }
+  }
+  if (longestRun >= 3 || (quantumV > 0 && peaksAtTop >= 2)) {
+    return `The transmission stops at the same top value (${top.toPrecision(4)} V) in ${peaksAtTop} resonance(s)${longestRun >= 3 ? ` and holds it for ${longestRun} samples` : ''}: the detector or digitiser is likely clipped, so the tallest resonances read low and the TEM00 fraction low. Reduce the gain or the vertical scale.`
+  }
+  return null
+}
+
+function degeneracy(input: WarningInputs): string | null {
+  const offsets = predictOrderOffsets(input.gouyRad, DEGENERACY_MAX_ORDER)
+  const limit = Math.max(3 * input.linewidthFsr, input.toleranceFsr)
+  const pairs: string[] = []
+  for (let a = 0; a <= DEGENERACY_MAX_ORDER; a++) {
+    for (let b = a + 1; b <= DEGENERACY_MAX_ORDER; b++) {
+      const d = Math.abs(offsets[a] - offsets[b])
+      if (Math.min(d, 1 - d) <= limit) pairs.push(`${a} and ${b}`)
+    }
+  }
+  // Near a stability edge every second order piles up beside TEM00 and beside its half-FSR point.
+  const cluster = Math.abs((2 * input.gouyRad) / Math.PI - Math.round((2 * input.gouyRad) / Math.PI))
+  const nearEdge = cluster < 0.1 && cluster > limit
+  if (pairs.length === 0 && !nearEdge) return null
+  const parts: string[] = []
+  if (pairs.length > 0) parts.push(`Transverse orders ${pairs.join(', ')} fall within ${limit.toFixed(3)} FSR of each other and cannot be separated: their power is reported merged into the lower order.`)
+  if (nearEdge) {
+    parts.push(
+      `The cavity is near a stability edge (g1·g2 = ${(input.model.g1 * input.model.g2).toFixed(3)}): successive even and odd orders are only ${cluster.toFixed(3)} FSR apart and crowd beside each TEM00 resonance, so the order shares and the TEM00 fraction are not reliable.`,
+    )
+  }
+  return parts.join(' ')
+}
+
+function leadingLobeIsTallest(signal: Float64Array, m: MeasuredResonance): boolean {
+  // Ringing follows the crossing: the first maximum is the tallest and later ones decay.
+  const c = Math.round(m.centerIndex)
+  let firstAbove = c
+  const half = m.maxV / 2
+  while (firstAbove > 0 && signal[firstAbove - 1] > half * 0.2) firstAbove--
+  let tallest = firstAbove
+  for (let i = firstAbove; i < Math.min(signal.length, c + 4 * m.fwhmSamples); i++) if (signal[i] > signal[tallest]) tallest = i
+  return tallest - firstAbove < 0.5 * (c - firstAbove + m.fwhmSamples)
+}

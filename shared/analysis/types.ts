@@ -1,0 +1,87 @@
+import { z } from 'zod'
+
+const warningSchema = z.object({ code: z.string(), message: z.string() })
+
+/** One resonance in the result. */
+export const analysisPeakSchema = z.object({
+  /** Centre on the file's own time axis, seconds. */
+  t: z.number(),
+  order: z.number().int().nullable(),
+  kind: z.enum(['carrier', 'sideband', 'unassigned']),
+  /** Height above the baseline, volts. */
+  height: z.number(),
+  heightError: z.number().nullable(),
+  fwhmSeconds: z.number(),
+  /** Integrated power: area above the baseline, V·s on the time axis. */
+  area: z.number(),
+  /** Share of the carrier power in the full FSR periods (0 for peaks outside them, sidebands and unassigned). */
+  share: z.number(),
+  /** Position in FSR units above the nearest TEM00 (0 … 1), null without calibration. */
+  positionFsr: z.number().nullable(),
+  fitted: z.boolean(),
+})
+
+/** What `analyzeTrace` returns; the command line prints it and the server stores it. */
+export const analysisResultSchema = z.object({
+  fundamentalFraction: z.number().min(0).max(1),
+  fundamentalFractionError: z.number().nullable(),
+  fsr: z.object({
+    /** Median TEM00 spacing on the file's time axis. */
+    seconds: z.number().nullable(),
+    /** c / 2L from the cavity geometry. */
+    hz: z.number(),
+    meanSpacingSeconds: z.number().nullable(),
+    spacingRangeSeconds: z.tuple([z.number(), z.number()]).nullable(),
+  }),
+  finesse: z.number().nullable(),
+  finesseError: z.number().nullable(),
+  linewidthHz: z.number().nullable(),
+  /** Carrier power share per transverse order, keyed "0", "1", …; sums to 1. */
+  orders: z.record(z.string(), z.number()),
+  misalignmentShare: z.number(),
+  mismatchShare: z.number(),
+  reading: z.string(),
+  measure: z.enum(['area', 'height']),
+  measureReason: z.string(),
+  gouy: z.object({ predictedOneWayRad: z.number(), measuredOneWayRad: z.number().nullable() }),
+  peaks: z.array(analysisPeakSchema),
+  sweep: z.object({
+    direction: z.enum(['up', 'down', 'unknown']),
+    rampDirection: z.enum(['rising', 'falling', 'unknown']),
+    startTime: z.number(),
+    endTime: z.number(),
+    evidence: z.string(),
+  }),
+  calibration: z.object({
+    polynomialOrder: z.number().int(),
+    residualRmsFsr: z.number().nullable(),
+    fundamentalCount: z.number().int(),
+  }),
+  fitQuality: z.object({
+    /** Median reduced χ² of the fitted resonances (noise from the trace). */
+    medianReducedChiSquare: z.number().nullable(),
+    fittedCount: z.number().int(),
+    peakCount: z.number().int(),
+    /** RMS distance of carriers from their predicted positions, FSR units. */
+    orderResidualRmsFsr: z.number().nullable(),
+  }),
+  samplesPerLinewidth: z.number().nullable(),
+  noise: z.object({ sigmaV: z.number(), darkLevelV: z.number() }),
+  channels: z.object({ transmission: z.string(), ramp: z.string().nullable() }),
+  warnings: z.array(warningSchema),
+})
+
+export type AnalysisResult = z.infer<typeof analysisResultSchema>
+export type AnalysisPeak = z.infer<typeof analysisPeakSchema>
+
+export interface AnalyzeOptions {
+  /** Override role detection: channel name or 0-based index. */
+  transmissionChannel?: string | number
+  /** Channel name or index of the ramp monitor; null = ignore the ramp. */
+  rampChannel?: string | number | null
+  sweepPart?: { startTime: number; endTime: number } | 'auto'
+  gouyOverrideRad?: number
+  peakModel?: 'auto' | 'lorentzian' | 'airy'
+  /** Else cavity.modulationMHz. */
+  modulationMHz?: number
+}

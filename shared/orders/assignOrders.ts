@@ -1,0 +1,145 @@
+import { predictOrderOffsets } from './predictOrderOffsets'
+
+/** A resonance placed on the optical-frequency axis. */
+export interface PlacedPeak {
+  /** Optical frequency in FSR units relative to the TEM00 comb (any real number; only the fraction matters). */
+  positionFsr: number
+  /** Weight for the choice of direction and the Gouy refinement (e.g. its height). */
+  weight: number
+  /** True for members of the TEM00 comb (always order 0). */
+  fundamental: boolean
+}
+
+export interface OrderLabel {
+  kind: 'carrier' | 'sideband' | 'unassigned'
+  /** Transverse order of a carrier (of a sideband: of its carrier); null when unassigned. */
+  order: number | null
+  /** Signed distance to the matched position, FSR units (NaN when unassigned). */
+  residualFsr: number
+}
+
+export interface AssignOrdersOptions {
+  /** Highest transverse order considered. @default 10 */
+  maxOrder?: number
+  /** Matching tolerance, FSR units. @default 0.02 */
+  toleranceFsr?: number
+  /** Modulation frequency over FSR (sidebands at ±this, mod 1, beside carriers); null for none. @default null */
+  sidebandOffsetFsr?: number | null
+  /** Orders whose sidebands are looked for. @default 2 */
+  sidebandMaxOrder?: number
+  /** Largest allowed refinement of ψ, rad. @default 0.25 */
+  maxGouyShiftRad?: number
+}
+
+export interface OrderAssignment {
+  labels: OrderLabel[]
+  /** 'up': optical frequency increases with time; 'down': decreases. */
+  direction: 'up' | 'down'
+  /** ψ refined from the matched positions (equals the prediction when nothing constrains it). */
+  measuredGouyRad: number
+  /** Weighted RMS residual of the carrier matches, FSR units. */
+  residualRmsFsr: number
+}
+
+/**
+ * Labels every resonance with the nearest predicted transverse order N·ψ/π mod 1 (Siegman, "Lasers" (1986),
+ * ch. 19), or a modulation sideband at ±f_mod/FSR beside a carrier, or `unassigned` beyond the tolerance.
+ * Both sweep directions (position x and 1 − x) are tried and the one matching more weight is kept; ψ is then
+ * refined by weighted least squares on the matched carriers: δψ/π = Σ wNr / Σ wN².
+ */
+export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, options: AssignOrdersOptions = {}): OrderAssignment {
+  const {
+    maxOrder = 10,
+    toleranceFsr = 0.02,
+    sidebandOffsetFsr = null,
+    sidebandMaxOrder = 2,
+    maxGouyShiftRad = 0.25,
+  } = options
+  let best: (OrderAssignment & { score: number }) | null = null
+  for (const direction of ['up', 'down'] as const) {
+    const positions = peaks.map((p) => (direction === 'up' ? frac(p.positionFsr) : frac(-p.positionFsr)))
+    let gouy = predictedGouyRad
+    let labels: OrderLabel[] = []
+    for (const tolerance of [2.5 * toleranceFsr, 1.5 * toleranceFsr, toleranceFsr, toleranceFsr]) {
+      labels = matchAll(peaks, positions, gouy, { maxOrder, tolerance, sidebandOffsetFsr, sidebandMaxOrder })
+      gouy = refineGouy(peaks, labels, gouy, predictedGouyRad, maxGouyShiftRad)
+    }
+    labels = matchAll(peaks, positions, gouy, { maxOrder, tolerance: toleranceFsr, sidebandOffsetFsr, sidebandMaxOrder })
+    let score = 0
+    let ss = 0
+    let ws = 0
+    for (let i = 0; i < peaks.length; i++) {
+      const l = labels[i]
+      if (l.kind === 'unassigned' || peaks[i].fundamental) continue
+      score += peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))
+      ss += peaks[i].weight * l.residualFsr ** 2
+      ws += peaks[i].weight
+    }
+    const candidate = { labels, direction, measuredGouyRad: gouy, residualRmsFsr: ws > 0 ? Math.sqrt(ss / ws) : 0, score }
+    if (!best || candidate.score > best.score) best = candidate
+  }
+  const { labels, direction, measuredGouyRad, residualRmsFsr } = best!
+  return { labels, direction, measuredGouyRad, residualRmsFsr }
+}
+
+interface MatchSettings {
+  maxOrder: number
+  tolerance: number
+  sidebandOffsetFsr: number | null
+  sidebandMaxOrder: number
+}
+
+function matchAll(peaks: PlacedPeak[], positions: number[], gouy: number, s: MatchSettings): OrderLabel[] {
+  const offsets = predictOrderOffsets(gouy, s.maxOrder)
+  return peaks.map((peak, i) => {
+    if (peak.fundamental) return { kind: 'carrier', order: 0, residualFsr: signedCircular(positions[i] - 0) }
+    let bestCost = Infinity
+    let label: OrderLabel = { kind: 'unassigned', order: null, residualFsr: NaN }
+    for (let order = 0; order <= s.maxOrder; order++) {
+      const r = signedCircular(positions[i] - offsets[order])
+      // Lower orders win near-ties: at equal distance the lower order carries more power in practice.
+      const cost = Math.abs(r) + order * 1e-4 * s.tolerance
+      if (Math.abs(r) <= s.tolerance && cost < bestCost) {
+        bestCost = cost
+        label = { kind: 'carrier', order, residualFsr: r }
+      }
+    }
+    if (s.sidebandOffsetFsr !== null) {
+      for (let order = 0; order <= Math.min(s.sidebandMaxOrder, s.maxOrder); order++) {
+        for (const sign of [1, -1]) {
+          const r = signedCircular(positions[i] - offsets[order] - sign * s.sidebandOffsetFsr)
+          // A carrier explanation is preferred unless the sideband is clearly closer.
+          const cost = Math.abs(r) + 0.25 * s.tolerance
+          if (Math.abs(r) <= s.tolerance && cost < bestCost) {
+            bestCost = cost
+            label = { kind: 'sideband', order, residualFsr: r }
+          }
+        }
+      }
+    }
+    return label
+  })
+}
+
+function refineGouy(peaks: PlacedPeak[], labels: OrderLabel[], gouy: number, predicted: number, maxShift: number): number {
+  let num = 0
+  let den = 0
+  for (let i = 0; i < peaks.length; i++) {
+    const l = labels[i]
+    if (l.kind !== 'carrier' || !l.order || peaks[i].fundamental) continue
+    num += peaks[i].weight * l.order * l.residualFsr
+    den += peaks[i].weight * l.order * l.order
+  }
+  if (den === 0) return gouy
+  const next = gouy + Math.PI * (num / den)
+  return Math.min(predicted + maxShift, Math.max(predicted - maxShift, next))
+}
+
+function frac(x: number): number {
+  return x - Math.floor(x)
+}
+
+/** Distance on the FSR circle, in (−0.5, 0.5]. */
+function signedCircular(d: number): number {
+  return d - Math.round(d)
+}
