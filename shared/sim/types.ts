@@ -6,23 +6,18 @@
  * - `simPresets: Record<string, SweptTraceOptions>` — `shared/sim/simPresets.ts`
  */
 
-/**
- * Two-mirror cavity geometry, as in the command line's CAVITY.json
- * (`null` radius = flat mirror). Structurally the same as the cavity model's input in `shared/cavity/`.
- */
-export interface CavityGeometry {
-  wavelengthNm: number
-  lengthMm: number
-  roc1Mm: number | null
-  roc2Mm: number | null
-}
+import type { CavityGeometry } from '../cavity'
+
+export type { CavityGeometry }
 
 export interface SweptTraceOptions {
   /** One-way Gouy phase ψ in radians; ignored when `cavity` is given (then ψ comes from the geometry). */
   gouyOneWayRad: number
   /** Cavity geometry: gives ψ and fsrHz (c / 2L). */
   cavity?: CavityGeometry
-  /** Cavity finesse (FSR / FWHM), e.g. 50 … 3000. */
+  /** FSR in Hz when no `cavity` is given (needed for sidebands and ringing); `cavity` wins when both are given. */
+  fsrHz?: number
+  /** Cavity finesse 𝓕 (Lorentzian-limit FSR / FWHM; Airy coefficient of finesse (2𝓕/π)²), e.g. 50 … 3000. */
   finesse: number
   /** Relative power per transverse order, index = order N; normalised by the generator (truth reports shares). */
   orderPowers: number[]
@@ -36,6 +31,8 @@ export interface SweptTraceOptions {
   direction?: 'up' | 'down'
   /** Sawtooth (fast flyback) or triangle (reverse sweep). @default 'sawtooth' */
   rampShape?: 'sawtooth' | 'triangle'
+  /** Optical detuning at the start of the sweep, in FSR units above a TEM00 resonance. @default seeded, in [0, 1) */
+  startDetuningFsr?: number
   /** Fractional piezo nonlinearity: 0.15 → ±15 % local sweep-rate change. The ramp channel stays linear. @default 0 */
   nonlinearity?: number
   /** Sample interval in seconds. @default 1e-5 */
@@ -98,7 +95,10 @@ export interface SweptTraceTruth {
   /** Linewidth (FSR / finesse) in samples at the mean sweep rate. */
   samplesPerLinewidth: number
   direction: 'up' | 'down'
-  /** Every simulated peak centre inside the record, in time order. */
+  /** Start and end of the main sweep (the monotonic part; the rest is flyback or turnaround), seconds. */
+  sweepStartSeconds: number
+  sweepEndSeconds: number
+  /** Every resonance centre inside the main sweep, in time order (crossings during flyback/turnaround are not listed). */
   peaks: SimulatedPeakTruth[]
 }
 

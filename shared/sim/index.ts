@@ -1,0 +1,4 @@
+/** Synthetic swept-cavity traces with known truth, for tests, accuracy checks and demo data. */
+export { generateSweptTrace } from './generateSweptTrace'
+export { simPresets } from './simPresets'
+export type { CavityGeometry, SimulatedPeakTruth, SweptTrace, SweptTraceOptions, SweptTraceTruth } from './types'
