@@ -37,11 +37,16 @@ export interface LeastSquaresOptions {
    * predicted relative RSS reductions both fall below its square. @default 1e-10
    */
   relativeTolerance?: number
+  /**
+   * Known variance of the weighted residuals (e.g. σ² of the noise with unit weights). When given, the covariance is
+   * this × (JᵀWJ)⁻¹ instead of s²(JᵀWJ)⁻¹. @default s² = RSS / (n − p)
+   */
+  knownResidualVariance?: number
 }
 
 /** Gradient cosine below which the point is stationary to working precision (MINPACK's gtol test). */
 const GRADIENT_TOLERANCE = 1e-13
-/** A Jacobian column whose effect on the model is below this fraction of ‖√w·y‖ marks an undetermined parameter. */
+/** A Jacobian column whose norm fell below this fraction of its largest norm during the fit marks an undetermined parameter. */
 const DEAD_COLUMN_FRACTION = 1e-10
 /** Reciprocal condition number of the column-scaled Jacobian below which the covariance is not trusted. */
 const MIN_RECIPROCAL_CONDITION = 1e-13
@@ -55,7 +60,7 @@ const MAX_DAMPING = 1e32
  * of J and of [R; √λ·D], with D the running maximum of the Jacobian column norms; λ is updated from the gain ratio.
  * Sources: D. W. Marquardt, J. SIAM 11, 431 (1963); J. J. Moré, Lecture Notes in Mathematics 630, 105 (1978)
  * (scaling and convergence tests); H. B. Nielsen, IMM-REP-1999-05, DTU (1999) (damping update).
- * Standard errors come from s²(JᵀWJ)⁻¹ with s² = RSS/(n − p). A point where some parameter has no effect on the
+ * Standard errors come from s²(JᵀWJ)⁻¹ with s² = RSS/(n − p) (or a known residual variance). A point where some parameter has no effect on the
  * model, or the Jacobian is numerically rank-deficient, is reported with `converged: false`.
  */
 export function fitLeastSquares(
@@ -72,6 +77,7 @@ export function fitLeastSquares(
     maxValues,
     jacobian,
     relativeTolerance = 1e-10,
+    knownResidualVariance,
   } = options
   const n = x.length
   assertSamples(x, y)
@@ -85,6 +91,9 @@ export function fitLeastSquares(
   }
   if (!(relativeTolerance > 0 && relativeTolerance < 1)) {
     throw new EngineError('invalid_argument', `relativeTolerance must be between 0 and 1, got ${String(relativeTolerance)}`)
+  }
+  if (knownResidualVariance !== undefined && !(Number.isFinite(knownResidualVariance) && knownResidualVariance > 0)) {
+    throw new EngineError('invalid_argument', `knownResidualVariance must be a positive number, got ${String(knownResidualVariance)}`)
   }
   const lower = boundVector(minValues, p, 'minValues', -Infinity)
   const upper = boundVector(maxValues, p, 'maxValues', Infinity)
@@ -209,7 +218,8 @@ export function fitLeastSquares(
     }
   }
 
-  const statistics = covarianceAt(params, evaluateJacobian(params), y, sqrtWeights, n, p, rss)
+  const variance = knownResidualVariance ?? (n > p ? rss / (n - p) : NaN)
+  const statistics = covarianceAt(evaluateJacobian(params), scale, n, p, variance)
   const undetermined = statistics.problem !== null
   return {
     parameters: Array.from(params),
@@ -242,18 +252,13 @@ interface CovarianceStatistics {
 }
 
 function covarianceAt(
-  params: Float64Array,
   jac: Float64Array,
-  y: ArrayLike<number>,
-  sqrtWeights: Float64Array,
+  largestColumnNorms: Float64Array,
   n: number,
   p: number,
-  rss: number,
+  s2: number,
 ): CovarianceStatistics {
   const nanMatrix = (): number[][] => Array.from({ length: p }, () => new Array<number>(p).fill(NaN))
-  let dataNorm = 0
-  for (let i = 0; i < n; i++) dataNorm += (sqrtWeights[i] * y[i]) ** 2
-  dataNorm = Math.sqrt(dataNorm)
   const norms = new Float64Array(p)
   for (let j = 0; j < p; j++) {
     let sq = 0
@@ -261,9 +266,9 @@ function covarianceAt(
     norms[j] = Math.sqrt(sq)
   }
   for (let j = 0; j < p; j++) {
-    // Effect on the model of changing parameter j by its own size: below round-off, the data cannot fix it.
-    const effect = norms[j] * Math.max(Math.abs(params[j]), Number.MIN_VALUE)
-    if (!(norms[j] > 0) || effect <= DEAD_COLUMN_FRACTION * dataNorm) {
+    // A column that has collapsed to round-off compared with its size during the fit (e.g. a decay rate driven to
+    // where the exponential underflows) means the data no longer determine that parameter.
+    if (!(norms[j] > DEAD_COLUMN_FRACTION * largestColumnNorms[j])) {
       return { covariance: nanMatrix(), problem: `parameter ${j} has no measurable effect on the model at the solution, so the data do not determine it` }
     }
   }
@@ -287,7 +292,6 @@ function covarianceAt(
     const solved = solveUpperTriangular(scaled, p, unit)
     for (let i = 0; i < p; i++) rInverse[i * p + col] = solved[i]
   }
-  const s2 = n > p ? rss / (n - p) : NaN
   const covariance: number[][] = []
   for (let a = 0; a < p; a++) {
     const row: number[] = []
