@@ -1,0 +1,87 @@
+import { EngineError } from '../errors'
+
+/** What the decoder found out about the bytes. */
+export interface DecodedTraceText {
+  text: string
+  encoding: 'utf-8' | 'latin-1'
+}
+
+export interface DecodeTraceTextOptions {
+  /** Largest accepted input in bytes. @default 209715200 (200 MiB) */
+  maxBytes?: number
+}
+
+const DEFAULT_MAX_BYTES = 200 * 1024 * 1024
+/** How much of the start of the file is inspected for binary or markup content. */
+const SNIFF_BYTES = 8192
+
+/**
+ * Turn uploaded bytes into text: refuse empty, oversized, binary and HTML/XML input, decode UTF-8 and fall
+ * back to Latin-1 (Windows-1252) when the bytes are not valid UTF-8 (older exports write "µs" as 0xB5).
+ */
+export function decodeTraceText(bytes: Uint8Array, options: DecodeTraceTextOptions = {}): DecodedTraceText {
+  const { maxBytes = DEFAULT_MAX_BYTES } = options
+  assertBytes(bytes)
+  if (bytes.length > maxBytes) {
+    throw new EngineError(
+      'file_too_large',
+      `The file is ${formatMiB(bytes.length)}, more than the limit of ${formatMiB(maxBytes)}.`,
+    )
+  }
+  if (bytes.length === 0 || isAllWhitespace(bytes)) {
+    throw new EngineError('empty_file', 'The file is empty: it holds no samples.')
+  }
+  assertNotBinary(bytes)
+
+  let text: string
+  let encoding: DecodedTraceText['encoding'] = 'utf-8'
+  try {
+    text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes)
+  } catch {
+    text = new TextDecoder('windows-1252').decode(bytes)
+    encoding = 'latin-1'
+  }
+  assertNotMarkup(text)
+  return { text, encoding }
+}
+
+function assertBytes(bytes: unknown): asserts bytes is Uint8Array {
+  if (!(bytes instanceof Uint8Array)) {
+    throw new EngineError('invalid_input', 'The trace must be given as bytes (a Uint8Array).')
+  }
+}
+
+function isAllWhitespace(bytes: Uint8Array): boolean {
+  for (let i = 0; i < bytes.length; i++) {
+    const b = bytes[i]
+    if (b !== 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) return false
+  }
+  return true
+}
+
+function assertNotBinary(bytes: Uint8Array): void {
+  const end = Math.min(bytes.length, SNIFF_BYTES)
+  let control = 0
+  for (let i = 0; i < end; i++) {
+    const b = bytes[i]
+    if (b === 0) {
+      throw new EngineError('binary_file', 'The file is binary (it contains NUL bytes), not a text export of samples.')
+    }
+    if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) control++
+  }
+  // Text exports carry no control characters besides tab and line ends; a few stray ones are tolerated.
+  if (control > Math.max(4, end * 0.01)) {
+    throw new EngineError('binary_file', 'The file is binary (it contains control bytes), not a text export of samples.')
+  }
+}
+
+function assertNotMarkup(text: string): void {
+  const head = text.slice(0, SNIFF_BYTES).replace(/^\uFEFF/, '').trimStart().toLowerCase()
+  if (head.startsWith('<') && /^<(?:!doctype|html|head|body|\?xml|table|div|!--|svg)/.test(head)) {
+    throw new EngineError('html_file', 'The file is an HTML or XML page, not a text export of samples.')
+  }
+}
+
+function formatMiB(bytes: number): string {
+  return `${(bytes / (1024 * 1024)).toFixed(1)} MiB`
+}

@@ -1,0 +1,445 @@
+import Papa from 'papaparse'
+import { EngineError } from '../errors'
+import { CellKind, classifyCell } from './classifyCell'
+import { parseUnit } from './parseUnit'
+import { readHeaderTiming } from './readHeaderTiming'
+
+/** One channel column as the sniffer understood it. */
+export interface SniffedChannel {
+  /** 0-based file column. */
+  column: number
+  name: string
+  /** Unit after conversion ('V' for mV) or as printed. */
+  unit: string
+  /** Multiply printed values by this to get `unit`. */
+  scale: number
+}
+
+/** Everything the body reader needs, found from the first few hundred lines. */
+export interface TraceLayout {
+  layout: 'columns' | 'side-by-side-blocks' | 'single-column'
+  delimiter: string
+  decimalComma: boolean
+  /** Character offset of the first data line. */
+  bodyStart: number
+  /** 0-based column of the printed time axis, or of a sample index, or null when neither. */
+  timeColumn: number | null
+  timeKind: 'time' | 'index' | null
+  /** Seconds per printed time unit (1e-3 for a column in ms). */
+  timeScale: number
+  channels: SniffedChannel[]
+  metadata: Record<string, string>
+  /** True when a header row named the columns. */
+  hasHeader: boolean
+}
+
+export interface SniffTraceLayoutOptions {
+  /** How many lines to inspect. @default 400 */
+  headLines?: number
+}
+
+interface HeadLine {
+  offset: number
+  text: string
+}
+
+interface TokenisedLine {
+  offset: number
+  cells: string[]
+  kinds: CellKind[]
+}
+
+const DELIMITERS = [',', ';', '\t']
+const TIME_NAME = /^(?:time|t|x|sec|secs|seconds|horizontal|zeit|temps|tiempo)\b|\btime\b/i
+const INDEX_NAME = /^(?:index|idx|sample|samples|sample no\.?|sample number|point|points|pt|n|no\.?|nr\.?|#|i)$/i
+const CHANNEL_NAME_KEY = /^(?:source|channel|name|label|trace|signal)$/i
+const VALUE_UNIT_KEY = /^(?:vertical|y|amplitude|voltage|value)?\s*units?$/i
+const TIME_UNIT_KEY = /^(?:horizontal|x|time)\s*units?$/i
+const COMMENT_MARK = /^\s*(?:#+|%+|\/\/|;+)\s*/
+
+/**
+ * Work out the layout of a text export from its first lines: delimiter (papaparse tokenises each candidate),
+ * decimal mark, preamble of key/value metadata, header row (and a units row under it), which columns hold
+ * numbers, side-by-side channel blocks that repeat their own metadata and time columns, and whether the first
+ * numeric column is a time axis, a sample index or a channel.
+ */
+export function sniffTraceLayout(text: string, options: SniffTraceLayoutOptions = {}): TraceLayout {
+  const { headLines: maxLines = 400 } = options
+  const lines = splitHead(text, maxLines)
+  const { delimiter, decimalComma, singleColumn } = chooseDelimiter(lines)
+  const rows = lines.map((line) => tokenise(line, delimiter, decimalComma))
+  const nonEmpty = rows.filter((row) => row.cells.some((cell) => cell.trim() !== ''))
+  const tail = nonEmpty.slice(Math.floor(nonEmpty.length * 0.4))
+
+  const dataColumns = findDataColumns(tail, singleColumn)
+  if (dataColumns.length === 0) {
+    throw new EngineError('no_numeric_data', 'The file has no column of numbers: nothing in it can be read as samples.')
+  }
+  const bodyIndex = findBodyStart(nonEmpty, dataColumns)
+  if (bodyIndex < 0) {
+    throw new EngineError('no_numeric_data', 'The file has no run of numeric rows: nothing in it can be read as samples.')
+  }
+
+  // Header (and an optional units row right under it) just above the body; everything above is preamble.
+  let names: string[] | null = null
+  let units: string[] | null = null
+  let preambleEnd = bodyIndex
+  const above = nonEmpty[bodyIndex - 1]
+  if (above && isHeaderRow(above, dataColumns)) {
+    const twoAbove = nonEmpty[bodyIndex - 2]
+    if (twoAbove && isUnitsRow(above, dataColumns) && isHeaderRow(twoAbove, dataColumns)) {
+      names = twoAbove.cells
+      units = above.cells
+      preambleEnd = bodyIndex - 2
+    } else {
+      names = above.cells
+      preambleEnd = bodyIndex - 1
+    }
+  }
+  const metadata: Record<string, string> = {}
+  for (const row of nonEmpty.slice(0, preambleEnd)) addPreambleEntry(metadata, row.cells)
+
+  // Data columns form runs; each run has the non-numeric columns before it as its own metadata block.
+  const body = nonEmpty.slice(bodyIndex)
+  const runs = splitRuns(dataColumns)
+  const blockMeta = runs.map((run, k) => readBlockMetadata(body, k === 0 ? 0 : runs[k - 1].at(-1)! + 1, run[0]))
+  const headValues = (column: number): number[] =>
+    body.map((row) => (row.kinds[column] === CellKind.Number ? classifyCell(row.cells[column], decimalComma).value : NaN))
+  const headerTiming = readHeaderTiming({ ...metadata, ...blockMeta[0] })
+
+  const blocksLedByTime =
+    runs.length >= 2 &&
+    runs.every((run) => run.length >= 2 && (isTimeName(names?.[run[0]]) || isUniformAxis(headValues(run[0]))))
+  const groups = blocksLedByTime ? runs : [dataColumns]
+  const layout: TraceLayout['layout'] = blocksLedByTime ? 'side-by-side-blocks' : singleColumn ? 'single-column' : 'columns'
+
+  // Decide what the first numeric column is.
+  let timeColumn: number | null = null
+  let timeKind: TraceLayout['timeKind'] = null
+  const first = groups[0][0]
+  if (blocksLedByTime) {
+    timeColumn = first
+    timeKind = 'time'
+  } else if (groups[0].length >= 2) {
+    const name = names?.[first]
+    const values = headValues(first)
+    if (name !== undefined && name.trim() !== '') {
+      if (isTimeName(name)) timeKind = 'time'
+      else if (INDEX_NAME.test(stripUnit(name).name)) timeKind = 'index'
+    } else if (isIndexAxis(values)) {
+      timeKind = 'index'
+    } else if (isUniformAxis(values)) {
+      const step = medianStep(values)
+      const stated = headerTiming.intervalSeconds
+      if (stated === null || Math.abs(step - stated) <= 0.05 * stated) timeKind = 'time'
+    }
+    if (timeKind !== null) timeColumn = first
+  }
+
+  // Units: header cell "(mV)", a units row, block metadata "Vertical Units", or preamble keys.
+  const preambleValueUnit = findValue(metadata, VALUE_UNIT_KEY)
+  const preambleTimeUnit = findValue(metadata, TIME_UNIT_KEY)
+  let timeScale = 1
+  if (timeColumn !== null && timeKind === 'time') {
+    const printed =
+      units?.[timeColumn]?.trim() ||
+      stripUnit(names?.[timeColumn] ?? '').unit ||
+      findValue(blockMeta[0], TIME_UNIT_KEY) ||
+      preambleTimeUnit
+    const parsed = parseUnit(printed)
+    if (parsed.kind === 'time') timeScale = parsed.scale
+  }
+
+  const channels: SniffedChannel[] = []
+  const blockChannelIndex: number[] = []
+  groups.forEach((group, k) => {
+    const meta = blocksLedByTime ? blockMeta[k] : blockMeta[0]
+    const columns = group.filter((column, j) => column !== timeColumn && !(blocksLedByTime && j === 0))
+    // A block's "Source"/"Channel" entry names its channel only when the block holds exactly one.
+    const blockName = columns.length === 1 ? findValue(meta, CHANNEL_NAME_KEY) : undefined
+    blockChannelIndex.push(channels.length)
+    for (const column of columns) {
+      const header = stripUnit(names?.[column] ?? '')
+      const name = header.name || blockName || `CH${channels.length + 1}`
+      const printedUnit = units?.[column]?.trim() || header.unit || findValue(meta, VALUE_UNIT_KEY) || preambleValueUnit
+      const parsed = parseUnit(printedUnit)
+      channels.push({ column, name, unit: parsed.unit, scale: parsed.scale })
+    }
+  })
+  if (channels.length === 0) {
+    throw new EngineError('no_numeric_data', 'The file has a time or index column but no channel of samples beside it.')
+  }
+  makeNamesUnique(channels)
+  mergeBlockMetadata(metadata, blockMeta, blocksLedByTime ? blockChannelIndex.map((k) => channels[k]?.name ?? '') : null)
+
+  return {
+    layout,
+    delimiter,
+    decimalComma,
+    bodyStart: body[0].offset,
+    timeColumn,
+    timeKind,
+    timeScale,
+    channels,
+    metadata,
+    hasHeader: names !== null,
+  }
+}
+
+function splitHead(text: string, maxLines: number): HeadLine[] {
+  const lines: HeadLine[] = []
+  let offset = text.charCodeAt(0) === 0xfeff ? 1 : 0
+  while (offset < text.length && lines.length < maxLines) {
+    let end = offset
+    while (end < text.length) {
+      const c = text.charCodeAt(end)
+      if (c === 10 || c === 13) break
+      end++
+    }
+    lines.push({ offset, text: text.slice(offset, end) })
+    if (end < text.length && text.charCodeAt(end) === 13 && text.charCodeAt(end + 1) === 10) end++
+    offset = end + 1
+  }
+  return lines
+}
+
+function tokenise(line: HeadLine, delimiter: string, decimalComma: boolean): TokenisedLine {
+  const cells = line.text.includes('"')
+    ? ((Papa.parse<string[]>(line.text, { delimiter }).data[0] as string[] | undefined) ?? [''])
+    : line.text.split(delimiter)
+  return { offset: line.offset, cells, kinds: cells.map((cell) => classifyCell(cell, decimalComma).kind) }
+}
+
+/** Pick the delimiter whose split of the lower part of the head is most consistent and most numeric. */
+function chooseDelimiter(lines: HeadLine[]): { delimiter: string; decimalComma: boolean; singleColumn: boolean } {
+  const usable = lines.filter((line) => line.text.trim() !== '')
+  const tail = usable.slice(Math.floor(usable.length * 0.4))
+  let best = { delimiter: ',', decimalComma: false, score: 0 }
+  for (const delimiter of DELIMITERS) {
+    const decimalComma = delimiter !== ',' && prefersDecimalComma(tail, delimiter)
+    const tokenised = tail.map((line) => tokenise(line, delimiter, decimalComma))
+    const counts = tokenised.map((row) => row.cells.length)
+    const mode = modeOf(counts)
+    if (mode < 2) continue
+    const consistent = counts.filter((count) => count === mode).length / counts.length
+    const clean =
+      tokenised.filter((row) => row.kinds.includes(CellKind.Number) && !row.kinds.includes(CellKind.Text)).length /
+      tokenised.length
+    const score = consistent * clean
+    if (score > best.score) best = { delimiter, decimalComma, score }
+  }
+  if (best.score >= 0.5) {
+    if (best.delimiter === ',' && looksLikeCommaDecimals(tail)) return { delimiter: ';', decimalComma: true, singleColumn: true }
+    return { delimiter: best.delimiter, decimalComma: best.decimalComma, singleColumn: false }
+  }
+  // One value per line: the delimiter only matters for preamble lines.
+  const decimalComma = prefersDecimalComma(tail, ';')
+  const preambleDelimiter = DELIMITERS.find((d) => usable.some((line) => line.text.includes(d))) ?? ','
+  return { delimiter: decimalComma ? ';' : preambleDelimiter, decimalComma, singleColumn: true }
+}
+
+function prefersDecimalComma(lines: HeadLine[], delimiter: string): boolean {
+  let comma = 0
+  let dot = 0
+  for (const line of lines) {
+    for (const cell of line.text.split(delimiter)) {
+      if (/^\s*[+-]?\d*,\d+(?:[eE][+-]?\d+)?\s*$/.test(cell)) comma++
+      else if (/^\s*[+-]?\d*\.\d+(?:[eE][+-]?\d+)?\s*$/.test(cell)) dot++
+    }
+  }
+  return comma > dot
+}
+
+/** A single column written with decimal commas splits on "," into integer and fraction digits. */
+function looksLikeCommaDecimals(lines: HeadLine[]): boolean {
+  if (lines.length === 0) return false
+  let telling = 0
+  for (const line of lines) {
+    const match = /^\s*[+-]?\d+,(\d+(?:[eE][+-]?\d+)?)\s*$/.exec(line.text)
+    if (!match) return false
+    if (/^0|[eE]/.test(match[1])) telling++
+  }
+  return telling > 0
+}
+
+function findDataColumns(tail: TokenisedLine[], singleColumn: boolean): number[] {
+  if (singleColumn) return tail.some((row) => row.kinds[0] === CellKind.Number) ? [0] : []
+  const width = modeOf(tail.map((row) => row.cells.length))
+  const columns: number[] = []
+  for (let column = 0; column < width; column++) {
+    let numbers = 0
+    let texts = 0
+    for (const row of tail) {
+      const kind = row.kinds[column]
+      if (kind === CellKind.Number) numbers++
+      else if (kind === CellKind.Text) texts++
+    }
+    if (numbers >= 0.5 * tail.length && texts <= 0.1 * tail.length) columns.push(column)
+  }
+  return columns
+}
+
+function isDataRow(row: TokenisedLine, dataColumns: number[]): boolean {
+  let numbers = 0
+  for (const column of dataColumns) {
+    const kind = row.kinds[column]
+    if (kind === CellKind.Text) return false
+    if (kind === CellKind.Number) numbers++
+  }
+  return numbers > 0
+}
+
+function findBodyStart(rows: TokenisedLine[], dataColumns: number[]): number {
+  for (let i = 0; i < rows.length; i++) {
+    if (!isDataRow(rows[i], dataColumns)) continue
+    const following = rows.slice(i + 1, i + 4)
+    if (following.every((row) => isDataRow(row, dataColumns))) return i
+  }
+  return -1
+}
+
+function isHeaderRow(row: TokenisedLine, dataColumns: number[]): boolean {
+  const texts = dataColumns.filter((column) => row.kinds[column] === CellKind.Text).length
+  return texts > 0 && texts >= dataColumns.length / 2
+}
+
+function isUnitsRow(row: TokenisedLine, dataColumns: number[]): boolean {
+  return dataColumns.every((column) => {
+    const cell = (row.cells[column] ?? '').trim()
+    if (cell === '') return true
+    const kind = parseUnit(cell).kind
+    return kind !== 'other' || /^[([].*[)\]]$/.test(cell)
+  })
+}
+
+/** "CH1 (mV)", "Voltage [V]", "Time/ms" → name and unit. */
+function stripUnit(header: string): { name: string; unit: string | undefined } {
+  const trimmed = header.trim()
+  const bracketed = /^(.*?)\s*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(trimmed)
+  if (bracketed) return { name: bracketed[1].trim(), unit: bracketed[2] }
+  const slashed = /^(.*?)\s*\/\s*([^/\s]+)$/.exec(trimmed)
+  if (slashed && parseUnit(slashed[2]).kind !== 'other') return { name: slashed[1].trim(), unit: slashed[2] }
+  return { name: trimmed, unit: undefined }
+}
+
+function isTimeName(header: string | undefined): boolean {
+  if (header === undefined) return false
+  const { name, unit } = stripUnit(header)
+  return TIME_NAME.test(name) || (name === '' && parseUnit(unit).kind === 'time')
+}
+
+function addPreambleEntry(metadata: Record<string, string>, cells: string[]): void {
+  const filled = cells.map((cell) => cell.trim()).filter((cell) => cell !== '')
+  if (filled.length === 0) return
+  let key = filled[0].replace(COMMENT_MARK, '')
+  let value = filled.slice(1).join(' ')
+  if (filled.length === 1) {
+    const split = /^(.*?)\s*[:=]\s*(.*)$/.exec(key)
+    if (split) {
+      key = split[1]
+      value = split[2]
+    }
+  }
+  key = key.replace(/\s*:$/, '').trim()
+  if (key === '') return
+  let unique = key
+  for (let k = 2; unique in metadata; k++) unique = `${key} (${k})`
+  metadata[unique] = value
+}
+
+function splitRuns(columns: number[]): number[][] {
+  const runs: number[][] = []
+  for (const column of columns) {
+    const last = runs.at(-1)
+    if (last && last.at(-1) === column - 1) last.push(column)
+    else runs.push([column])
+  }
+  return runs
+}
+
+/** Key/value pairs printed in the non-numeric columns [from, to) of the body rows. */
+function readBlockMetadata(body: TokenisedLine[], from: number, to: number): Record<string, string> {
+  const metadata: Record<string, string> = {}
+  if (to <= from) return metadata
+  for (const row of body) addPreambleEntry(metadata, row.cells.slice(from, to))
+  return metadata
+}
+
+/** Block keys that agree across blocks are kept once; others are prefixed with the block's channel name. */
+function mergeBlockMetadata(metadata: Record<string, string>, blocks: Record<string, string>[], names: string[] | null): void {
+  if (names === null || blocks.length < 2) {
+    for (const [key, value] of Object.entries(blocks[0] ?? {})) if (!(key in metadata)) metadata[key] = value
+    return
+  }
+  const keys = new Set(blocks.flatMap((block) => Object.keys(block)))
+  for (const key of keys) {
+    const values = blocks.map((block) => block[key])
+    if (values.every((value) => value === values[0])) {
+      if (!(key in metadata)) metadata[key] = values[0]
+    } else {
+      values.forEach((value, k) => {
+        if (value !== undefined) metadata[`${names[k] ?? `CH${k + 1}`} ${key}`] = value
+      })
+    }
+  }
+}
+
+function findValue(metadata: Record<string, string> | undefined, key: RegExp): string | undefined {
+  if (!metadata) return undefined
+  for (const [name, value] of Object.entries(metadata)) if (key.test(name.trim())) return value
+  return undefined
+}
+
+function makeNamesUnique(channels: SniffedChannel[]): void {
+  const seen = new Map<string, number>()
+  for (const channel of channels) {
+    const count = (seen.get(channel.name) ?? 0) + 1
+    seen.set(channel.name, count)
+    if (count > 1) channel.name = `${channel.name} #${count}`
+  }
+}
+
+function modeOf(values: number[]): number {
+  const counts = new Map<number, number>()
+  let best = 0
+  let bestCount = 0
+  for (const value of values) {
+    const count = (counts.get(value) ?? 0) + 1
+    counts.set(value, count)
+    if (count > bestCount || (count === bestCount && value > best)) {
+      best = value
+      bestCount = count
+    }
+  }
+  return best
+}
+
+function finiteSteps(values: number[]): number[] {
+  const steps: number[] = []
+  for (let i = 1; i < values.length; i++) {
+    const step = values[i] - values[i - 1]
+    if (Number.isFinite(step)) steps.push(step)
+  }
+  return steps
+}
+
+function medianStep(values: number[]): number {
+  const steps = finiteSteps(values).sort((a, b) => a - b)
+  return steps.length === 0 ? NaN : steps[Math.floor(steps.length / 2)]
+}
+
+/** Increasing in near-equal steps (a stray glitch or two allowed): a printed time axis. */
+function isUniformAxis(values: number[]): boolean {
+  const steps = finiteSteps(values)
+  if (steps.length < 3) return false
+  const median = medianStep(values)
+  if (!(median > 0)) return false
+  const close = steps.filter((step) => Math.abs(step - median) <= 0.01 * median).length
+  return close >= 0.8 * steps.length
+}
+
+/** Whole numbers counting up by one: a sample index. */
+function isIndexAxis(values: number[]): boolean {
+  const finite = values.filter(Number.isFinite)
+  return finite.length >= 3 && finite.every(Number.isInteger) && medianStep(values) === 1
+}
