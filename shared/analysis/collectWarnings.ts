@@ -27,13 +27,13 @@ const DEGENERACY_MAX_ORDER = 6
 export function collectWarnings(input: WarningInputs): EngineWarning[] {
   const w: EngineWarning[] = []
   const { measured, labels, fundamentals } = input
-  if (input.samplesPerLinewidth < 5) {
+  if (!(input.samplesPerLinewidth >= 6)) {
     w.push({
       code: 'undersampled',
-      message: `Only ${input.samplesPerLinewidth.toFixed(1)} samples per TEM00 linewidth (5 or more wanted): shares use integrated power; linewidth and finesse are rough. Record with a shorter sample interval or a slower sweep.`,
+      message: `Only ${input.samplesPerLinewidth.toFixed(1)} samples per TEM00 linewidth (6 or more wanted for a trustworthy fit): shares use integrated power; linewidth and finesse are rough. Record with a shorter sample interval or a slower sweep.`,
     })
   }
-  const saturated = saturation(input.part, measured, input.quantumV)
+  const saturated = saturation(input.part, measured, input.quantumV, input.sigmaV)
   if (saturated) w.push({ code: 'saturated', message: saturated })
   if (fundamentals.length < 2) {
     w.push({
@@ -78,7 +78,7 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
   return w
 }
 
-function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV: number): string | null {
+function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV: number, sigmaV: number): string | null {
   let top = -Infinity
   for (let i = 0; i < part.length; i++) if (part[i] > top) top = part[i]
   let longestRun = 0
@@ -96,7 +96,11 @@ function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV:
       if (part[i] === top) { peaksAtTop++; break }
     }
   }
-  if (longestRun >= 3 || (quantumV > 0 && peaksAtTop >= 2)) {
+  // A fit through the wings that overshoots the highest sample means the top was cut off.
+  const overshoot = measured.some((m) => m.fitted && m.heightV > top + Math.max(5 * sigmaV, 2 * quantumV) - baselineOf(part))
+  const heights = measured.map((m) => m.maxV).sort((a, b) => b - a)
+  const uneven = heights.length >= 3 && heights[0] > 1.3 * heights[Math.min(heights.length - 1, 2)]
+  if (overshoot || (quantumV > 0 && peaksAtTop >= 2 && uneven && longestRun >= 1)) {
     return `The transmission stops at the same top value (${top.toPrecision(4)} V) in ${peaksAtTop} resonance(s)${longestRun >= 3 ? ` and holds it for ${longestRun} samples` : ''}: the detector or digitiser is likely clipped, so the tallest resonances read low and the TEM00 fraction low. Reduce the gain or the vertical scale.`
   }
   return null
@@ -135,4 +139,12 @@ function leadingLobeIsTallest(signal: Float64Array, m: MeasuredResonance): boole
   let tallest = firstAbove
   for (let i = firstAbove; i < Math.min(signal.length, c + 4 * m.fwhmSamples); i++) if (signal[i] > signal[tallest]) tallest = i
   return tallest - firstAbove < 0.5 * (c - firstAbove + m.fwhmSamples)
+}
+
+function baselineOf(part: Float64Array): number {
+  const sample: number[] = []
+  const step = Math.max(1, Math.floor(part.length / 2000))
+  for (let i = 0; i < part.length; i += step) if (Number.isFinite(part[i])) sample.push(part[i])
+  sample.sort((a, b) => a - b)
+  return sample[Math.floor(sample.length / 2)] ?? 0
 }

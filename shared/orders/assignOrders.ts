@@ -27,7 +27,7 @@ export interface AssignOrdersOptions {
   sidebandOffsetFsr?: number | null
   /** Orders whose sidebands are looked for. @default 2 */
   sidebandMaxOrder?: number
-  /** Largest allowed refinement of ψ, rad. @default 0.25 */
+  /** Largest allowed refinement of ψ, rad (a 1 % length error moves ψ by far less). @default 0.08 */
   maxGouyShiftRad?: number
 }
 
@@ -53,14 +53,14 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     toleranceFsr = 0.02,
     sidebandOffsetFsr = null,
     sidebandMaxOrder = 2,
-    maxGouyShiftRad = 0.25,
+    maxGouyShiftRad = 0.08,
   } = options
   let best: (OrderAssignment & { score: number }) | null = null
   for (const direction of ['up', 'down'] as const) {
     const positions = peaks.map((p) => (direction === 'up' ? frac(p.positionFsr) : frac(-p.positionFsr)))
     let gouy = predictedGouyRad
     let labels: OrderLabel[] = []
-    for (const tolerance of [2.5 * toleranceFsr, 1.5 * toleranceFsr, toleranceFsr, toleranceFsr]) {
+    for (const tolerance of [1.5 * toleranceFsr, 1.2 * toleranceFsr, toleranceFsr, toleranceFsr]) {
       labels = matchAll(peaks, positions, gouy, { maxOrder, tolerance, sidebandOffsetFsr, sidebandMaxOrder })
       gouy = refineGouy(peaks, labels, gouy, predictedGouyRad, maxGouyShiftRad)
     }
@@ -71,10 +71,12 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     for (let i = 0; i < peaks.length; i++) {
       const l = labels[i]
       if (l.kind === 'unassigned' || peaks[i].fundamental) continue
-      score += peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))
+      // A mirrored spectrum also fits with ψ → π − ψ and high orders: prefer low orders and a small ψ change.
+      score += (peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))) / (1 + 0.1 * (l.order ?? 0))
       ss += peaks[i].weight * l.residualFsr ** 2
       ws += peaks[i].weight
     }
+    score *= Math.exp(-(((gouy - predictedGouyRad) / (0.5 * maxGouyShiftRad)) ** 2))
     const candidate = { labels, direction, measuredGouyRad: gouy, residualRmsFsr: ws > 0 ? Math.sqrt(ss / ws) : 0, score }
     if (!best || candidate.score > best.score) best = candidate
   }
@@ -97,8 +99,8 @@ function matchAll(peaks: PlacedPeak[], positions: number[], gouy: number, s: Mat
     let label: OrderLabel = { kind: 'unassigned', order: null, residualFsr: NaN }
     for (let order = 0; order <= s.maxOrder; order++) {
       const r = signedCircular(positions[i] - offsets[order])
-      // Lower orders win near-ties: at equal distance the lower order carries more power in practice.
-      const cost = Math.abs(r) + order * 1e-4 * s.tolerance
+      // Lower orders win near-ties: they carry more power in practice (common practice).
+      const cost = Math.abs(r) + order * 0.1 * s.tolerance
       if (Math.abs(r) <= s.tolerance && cost < bestCost) {
         bestCost = cost
         label = { kind: 'carrier', order, residualFsr: r }
@@ -108,8 +110,8 @@ function matchAll(peaks: PlacedPeak[], positions: number[], gouy: number, s: Mat
       for (let order = 0; order <= Math.min(s.sidebandMaxOrder, s.maxOrder); order++) {
         for (const sign of [1, -1]) {
           const r = signedCircular(positions[i] - offsets[order] - sign * s.sidebandOffsetFsr)
-          // A carrier explanation is preferred unless the sideband is clearly closer.
-          const cost = Math.abs(r) + 0.25 * s.tolerance
+          // Sidebands of low orders are stronger than the high-order carriers they may sit beside.
+          const cost = Math.abs(r) + (0.05 + 0.1 * order) * s.tolerance
           if (Math.abs(r) <= s.tolerance && cost < bestCost) {
             bestCost = cost
             label = { kind: 'sideband', order, residualFsr: r }

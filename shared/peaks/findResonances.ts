@@ -4,136 +4,114 @@ import { EngineError } from '../errors'
 export interface ResonanceCandidate {
   /** Sample of the highest point. */
   peakIndex: number
-  /** Window used to measure it: [startIndex, endIndex). */
+  /** Samples belonging to the resonance: [startIndex, endIndex) (down to the valleys or the noise floor). */
   startIndex: number
   endIndex: number
   /** Highest sample above the baseline, volts. */
   maxV: number
-  /** Number of separate maxima merged into this resonance (> 2 means ringing, dither or similar fast structure). */
+  /** Number of separate maxima merged into this resonance (≥ 3 means ringing, dither or similar fast structure). */
   lobeCount: number
 }
 
 export interface FindResonancesOptions {
-  /** Detection threshold in noise σ. @default max(5, √(2 ln n) + 1) */
+  /** A maximum must rise this many noise σ above the higher of its two valleys (its prominence). @default max(5, √(2 ln n) + 1) */
   thresholdSigma?: number
-  /** Runs above threshold closer than this many samples always merge. @default 2 */
-  minGapSamples?: number
-  /** A second maximum must stand out of the valley by this fraction of its own height to count as a resonance. @default 0.3 */
-  valleyFraction?: number
+  /** Maxima closer than this many of their half-prominence widths are one resonance. @default 2 */
+  mergeWidths?: number
+  /** Longest walk, in samples, when measuring a prominence. @default max(200, n / 50) */
+  maxWalk?: number
 }
 
 /**
- * Finds resonances by significance over the noise (k·σ, not a fraction of the tallest peak), and groups the
- * samples of one resonance before anything is fitted, so that cavity ringing after a fast crossing
- * (Poirson et al., J. Opt. Soc. Am. B 14, 2811 (1997)), laser dither or detector low-pass cannot split it:
- * runs above threshold separated by less than their own width are one resonance, and a group showing three
- * or more maxima is fast structure of one resonance, not several resonances.
+ * Finds resonances by significance over the noise: every local maximum whose prominence (height above the
+ * higher of the valleys separating it from taller ground) exceeds k·σ — not a fraction of the tallest peak.
+ * Maxima closer together than about two of their own widths are then grouped as one resonance before anything
+ * is fitted, so cavity ringing after a fast crossing (Poirson et al., J. Opt. Soc. Am. B 14, 2811 (1997)),
+ * laser dither or detector low-pass cannot split one resonance into many.
  */
 export function findResonances(signalV: Float64Array, sigmaV: number, options: FindResonancesOptions = {}): ResonanceCandidate[] {
   const n = signalV.length
   const {
     thresholdSigma = Math.max(5, Math.sqrt(2 * Math.log(Math.max(n, 2))) + 1),
-    minGapSamples = 2,
-    valleyFraction = 0.3,
+    mergeWidths = 2,
+    maxWalk = Math.max(200, Math.floor(n / 50)),
   } = options
   if (!(sigmaV > 0)) throw new EngineError('invalid_argument', `sigmaV must be greater than 0, got ${sigmaV}`)
-  const threshold = thresholdSigma * sigmaV
-  const runs = runsAbove(signalV, threshold)
-  const groups = mergeRuns(runs, minGapSamples)
-  const found: ResonanceCandidate[] = []
-  for (const group of groups) {
-    for (const candidate of splitGroup(signalV, group, sigmaV, thresholdSigma, valleyFraction)) found.push(candidate)
+  const minProminence = thresholdSigma * sigmaV
+  const maxima: { index: number; prominence: number; halfWidth: number }[] = []
+  for (let i = 0; i < n; i++) {
+    const v = signalV[i]
+    if (!(v > minProminence)) continue
+    if (i > 0 && !(v > signalV[i - 1])) continue
+    if (i + 1 < n && v < signalV[i + 1]) continue
+    const prominence = prominenceAt(signalV, i, maxWalk)
+    if (prominence >= minProminence) maxima.push({ index: i, prominence, halfWidth: halfProminenceWidth(signalV, i, prominence, maxWalk) })
   }
-  return found
-}
-
-interface Run {
-  start: number
-  end: number
-}
-
-function runsAbove(signalV: Float64Array, threshold: number): Run[] {
-  const runs: Run[] = []
-  let start = -1
-  for (let i = 0; i < signalV.length; i++) {
-    const above = signalV[i] > threshold
-    if (above && start < 0) start = i
-    if (!above && start >= 0) {
-      runs.push({ start, end: i })
-      start = -1
-    }
-  }
-  if (start >= 0) runs.push({ start, end: signalV.length })
-  return runs
-}
-
-/** Joins runs whose gap is shorter than the narrower of the two (fast structure) or than `minGap`. */
-function mergeRuns(runs: Run[], minGap: number): Run[][] {
-  const groups: Run[][] = []
-  for (const run of runs) {
+  // Group maxima that sit within a couple of their own widths: structure inside one resonance.
+  const groups: number[][] = []
+  for (let k = 0; k < maxima.length; k++) {
     const group = groups[groups.length - 1]
     if (group) {
-      const last = group[group.length - 1]
-      const gap = run.start - last.end
-      const width = Math.min(run.end - run.start, last.end - last.start)
-      if (gap <= minGap || gap < width) {
-        group.push(run)
+      const last = maxima[group[group.length - 1]]
+      const width = Math.max(last.halfWidth, maxima[k].halfWidth)
+      if (maxima[k].index - last.index <= mergeWidths * width) {
+        group.push(k)
         continue
       }
     }
-    groups.push([run])
+    groups.push([k])
   }
-  return groups
+  const found: ResonanceCandidate[] = []
+  for (const group of groups) {
+    let peakIndex = maxima[group[0]].index
+    for (const k of group) if (signalV[maxima[k].index] > signalV[peakIndex]) peakIndex = maxima[k].index
+    found.push({
+      peakIndex,
+      startIndex: maxima[group[0]].index,
+      endIndex: maxima[group[group.length - 1]].index + 1,
+      maxV: signalV[peakIndex],
+      lobeCount: group.length,
+    })
+  }
+  extendToValleys(signalV, found, sigmaV)
+  return found
 }
 
-function splitGroup(signalV: Float64Array, group: Run[], sigmaV: number, thresholdSigma: number, valleyFraction: number): ResonanceCandidate[] {
-  const start = group[0].start
-  const end = group[group.length - 1].end
-  const maxima = prominentMaxima(signalV, start, end, sigmaV, thresholdSigma, valleyFraction)
-  if (maxima.length !== 2) {
-    // One maximum, or three and more (ringing lobes, dither): one resonance.
-    let peakIndex = start
-    for (let i = start; i < end; i++) if (signalV[i] > signalV[peakIndex]) peakIndex = i
-    return [{ peakIndex, startIndex: start, endIndex: end, maxV: signalV[peakIndex], lobeCount: Math.max(1, maxima.length) }]
-  }
-  // Two resonances overlapping: cut at the valley between them.
-  const [a, b] = maxima
-  let valley = a
-  for (let i = a; i <= b; i++) if (signalV[i] < signalV[valley]) valley = i
-  return [
-    { peakIndex: a, startIndex: start, endIndex: valley + 1, maxV: signalV[a], lobeCount: 1 },
-    { peakIndex: b, startIndex: valley + 1, endIndex: end, maxV: signalV[b], lobeCount: 1 },
-  ]
+/** Height above the higher of the lowest points met on each side before reaching higher ground. */
+function prominenceAt(s: Float64Array, i: number, maxWalk: number): number {
+  const h = s[i]
+  let leftMin = h
+  let j = i - 1
+  const leftStop = Math.max(0, i - maxWalk)
+  while (j >= leftStop && !(s[j] > h)) { if (s[j] < leftMin) leftMin = s[j]; j-- }
+  let rightMin = h
+  let k = i + 1
+  const rightStop = Math.min(s.length - 1, i + maxWalk)
+  while (k <= rightStop && !(s[k] > h)) { if (s[k] < rightMin) rightMin = s[k]; k++ }
+  return h - Math.max(leftMin, rightMin)
 }
 
-/**
- * Local maxima that rise out of the valley on each side by ≥ `valleyFraction` of their height and by the
- * detection threshold (a topographic-prominence test, common practice).
- */
-function prominentMaxima(signalV: Float64Array, start: number, end: number, sigmaV: number, thresholdSigma: number, valleyFraction: number): number[] {
-  const candidates: number[] = []
-  for (let i = start; i < end; i++) {
-    const left = i > start ? signalV[i - 1] : -Infinity
-    const right = i + 1 < end ? signalV[i + 1] : -Infinity
-    if (signalV[i] > left && signalV[i] >= right) candidates.push(i)
+/** Half the full width at half prominence, in samples (at least 0.5). */
+function halfProminenceWidth(s: Float64Array, i: number, prominence: number, maxWalk: number): number {
+  const level = s[i] - prominence / 2
+  let a = i
+  while (a > 0 && i - a < maxWalk && s[a - 1] > level) a--
+  let b = i
+  while (b + 1 < s.length && b - i < maxWalk && s[b + 1] > level) b++
+  return Math.max(0.5, (b - a + 1) / 2)
+}
+
+/** Widens each resonance to its valleys with the neighbours, or to where it sinks into the noise. */
+function extendToValleys(s: Float64Array, found: ResonanceCandidate[], sigmaV: number): void {
+  for (let k = 0; k < found.length; k++) {
+    const c = found[k]
+    const leftLimit = k > 0 ? found[k - 1].endIndex : 0
+    const rightLimit = k + 1 < found.length ? found[k + 1].startIndex : s.length
+    let a = c.startIndex
+    while (a - 1 >= leftLimit && s[a - 1] > sigmaV && s[a - 1] <= s[a] + sigmaV) a--
+    let b = c.endIndex
+    while (b < rightLimit && s[b] > sigmaV && s[b] <= s[b - 1] + sigmaV) b++
+    c.startIndex = a
+    c.endIndex = b
   }
-  if (candidates.length <= 1) return candidates
-  const kept: number[] = []
-  for (const c of candidates) {
-    const h = signalV[c]
-    const need = Math.max(valleyFraction * h, thresholdSigma * sigmaV)
-    // Walk to each side until something higher appears; the deeper of the two minimum climbs must exceed `need`.
-    let leftMin = h
-    let i = c - 1
-    while (i >= start && signalV[i] <= h) { if (signalV[i] < leftMin) leftMin = signalV[i]; i-- }
-    const leftOpen = i < start
-    let rightMin = h
-    let j = c + 1
-    while (j < end && signalV[j] <= h) { if (signalV[j] < rightMin) rightMin = signalV[j]; j++ }
-    const rightOpen = j >= end
-    const leftDrop = leftOpen ? Infinity : h - leftMin
-    const rightDrop = rightOpen ? Infinity : h - rightMin
-    if (Math.min(leftDrop, rightDrop) >= need) kept.push(c)
-  }
-  return kept
 }
