@@ -250,16 +250,25 @@ function prefersDecimalComma(lines: HeadLine[], delimiter: string): boolean {
   return comma > dot
 }
 
-/** A single column written with decimal commas splits on "," into integer and fraction digits. */
+/**
+ * A single column written with decimal commas splits on "," into integer and fraction digits. Two integer
+ * columns (index and counts) look the same, so ask for a telling sign: a fraction with a leading zero, an
+ * exponent, or more digits than any counter prints; and a first field that does not count up by one.
+ */
 function looksLikeCommaDecimals(lines: HeadLine[]): boolean {
-  if (lines.length === 0) return false
+  if (lines.length < 2) return false
   let telling = 0
+  let counting = 0
+  let previous = NaN
   for (const line of lines) {
-    const match = /^\s*[+-]?\d+,(\d+(?:[eE][+-]?\d+)?)\s*$/.exec(line.text)
+    const match = /^\s*([+-]?\d+),(\d+(?:[eE][+-]?\d+)?)\s*$/.exec(line.text)
     if (!match) return false
-    if (/^0|[eE]/.test(match[1])) telling++
+    if (/^0|[eE]|\d{6}/.test(match[2])) telling++
+    const whole = Number(match[1])
+    if (whole === previous + 1) counting++
+    previous = whole
   }
-  return telling > 0
+  return telling > 0 && counting < lines.length / 2
 }
 
 function findDataColumns(tail: TokenisedLine[], singleColumn: boolean): number[] {
