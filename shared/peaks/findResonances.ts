@@ -61,6 +61,7 @@ export function findResonances(signalV: Float64Array, sigmaV: number, options: F
     }
     groups.push([k])
   }
+  mergeRingingTails(groups, maxima, signalV)
   const found: ResonanceCandidate[] = []
   for (const group of groups) {
     let peakIndex = maxima[group[0]].index
@@ -75,6 +76,34 @@ export function findResonances(signalV: Float64Array, sigmaV: number, options: F
   }
   extendToValleys(signalV, found, sigmaV)
   return found
+}
+
+/**
+ * A tall resonance followed (first within ten of its half-widths, then each step at most 1.5× the last) by two or
+ * more ever-smaller maxima is ringing (a decaying beat after a fast crossing): the tail joins the resonance. A single follower may be a real mode and stays.
+ */
+function mergeRingingTails(groups: number[][], maxima: { index: number; halfWidth: number }[], s: Float64Array): void {
+  for (let g = 0; g < groups.length; g++) {
+    const top = groups[g].reduce((a, k) => (s[maxima[k].index] > s[maxima[a].index] ? k : a), groups[g][0])
+    let previous = maxima[groups[g][groups[g].length - 1]].index
+    let spacing = 10 * maxima[top].halfWidth
+    let last = s[maxima[groups[g][groups[g].length - 1]].index]
+    let end = g + 1
+    while (end < groups.length && maxima[groups[end][0]].index - previous <= spacing) {
+      const height = Math.max(...groups[end].map((k) => s[maxima[k].index]))
+      // Ever smaller, allowing the beat to wobble a little from lobe to lobe.
+      if (!(height < 1.5 * last && height < 0.5 * s[maxima[top].index])) break
+      last = height
+      // The beat period shortens as the detuning grows: the chain may continue at 1.5× the last step.
+      spacing = 1.5 * (maxima[groups[end][0]].index - previous)
+      previous = maxima[groups[end][groups[end].length - 1]].index
+      end++
+    }
+    if (end - (g + 1) >= 2) {
+      for (let h = g + 1; h < end; h++) groups[g].push(...groups[h])
+      groups.splice(g + 1, end - (g + 1))
+    }
+  }
 }
 
 /** Height above the higher of the lowest points met on each side before reaching higher ground. */
