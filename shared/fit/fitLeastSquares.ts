@@ -126,6 +126,7 @@ export function fitLeastSquares(
   const scale = new Float64Array(p)
   const columnNorms = new Float64Array(p)
   let trialResiduals = new Float64Array(n)
+  const jd = new Float64Array(n)
   let lambda = INITIAL_DAMPING
   let nu = 2
   let iterations = 0
@@ -144,7 +145,7 @@ export function fitLeastSquares(
       let sq = 0
       let g = 0
       for (let i = 0; i < n; i++) {
-        const v = jac[i * p + j]
+        const v = jac[j * n + i]
         sq += v * v
         g += v * residuals[i]
       }
@@ -171,7 +172,7 @@ export function fitLeastSquares(
 
     // Inner loop: raise λ until a step lowers the RSS (or a convergence test says no better point exists).
     for (;;) {
-      const delta = dampedStep(r, qtr, d, lambda, p)
+      const delta = dampedStep(r, n, qtr, d, lambda, p)
       const trial = clampInto(Float64Array.from(params, (v, j) => v + delta[j]), lower, upper)
       let stepNorm = 0
       for (let j = 0; j < p; j++) {
@@ -179,12 +180,14 @@ export function fitLeastSquares(
         stepNorm += (d[j] * delta[j]) ** 2
       }
       stepNorm = Math.sqrt(stepNorm)
-      let predicted = 0
-      for (let i = 0; i < n; i++) {
-        let jd = 0
-        for (let j = 0; j < p; j++) jd += jac[i * p + j] * delta[j]
-        predicted += jd * (2 * residuals[i] - jd)
+      jd.fill(0)
+      for (let j = 0; j < p; j++) {
+        const dj = delta[j]
+        if (dj === 0) continue
+        for (let i = 0; i < n; i++) jd[i] += jac[j * n + i] * dj
       }
+      let predicted = 0
+      for (let i = 0; i < n; i++) predicted += jd[i] * (2 * residuals[i] - jd[i])
       const rssTrial = evaluateResiduals(trial, trialResiduals)
       const actualRelative = Number.isFinite(rssTrial) ? (rss - rssTrial) / rss : -Infinity
       const predictedRelative = Math.max(predicted, 0) / rss
@@ -233,16 +236,17 @@ export function fitLeastSquares(
 }
 
 /** δ minimising ‖[R; √λ D] δ − [Qᵀr; 0]‖, i.e. (JᵀJ + λD²)δ = Jᵀr, from the QR of J. */
-function dampedStep(r: Float64Array, qtr: Float64Array, d: Float64Array, lambda: number, p: number): Float64Array {
-  const stacked = new Float64Array(2 * p * p)
-  const rhs = new Float64Array(2 * p)
-  for (let i = 0; i < p; i++) {
-    for (let j = i; j < p; j++) stacked[i * p + j] = r[i * p + j]
-    rhs[i] = qtr[i]
-    stacked[(p + i) * p + i] = Math.sqrt(lambda) * d[i]
+function dampedStep(r: Float64Array, n: number, qtr: Float64Array, d: Float64Array, lambda: number, p: number): Float64Array {
+  const rows = 2 * p
+  const stacked = new Float64Array(rows * p)
+  const rhs = new Float64Array(rows)
+  for (let j = 0; j < p; j++) {
+    for (let i = 0; i <= j; i++) stacked[j * rows + i] = r[j * n + i]
+    rhs[j] = qtr[j]
+    stacked[j * rows + p + j] = Math.sqrt(lambda) * d[j]
   }
-  householderQr(stacked, 2 * p, p, rhs)
-  return solveUpperTriangular(stacked, p, rhs)
+  householderQr(stacked, rows, p, rhs)
+  return solveUpperTriangular(stacked, rows, p, rhs)
 }
 
 interface CovarianceStatistics {
@@ -262,7 +266,7 @@ function covarianceAt(
   const norms = new Float64Array(p)
   for (let j = 0; j < p; j++) {
     let sq = 0
-    for (let i = 0; i < n; i++) sq += jac[i * p + j] ** 2
+    for (let i = 0; i < n; i++) sq += jac[j * n + i] ** 2
     norms[j] = Math.sqrt(sq)
   }
   for (let j = 0; j < p; j++) {
@@ -272,12 +276,12 @@ function covarianceAt(
       return { covariance: nanMatrix(), problem: `parameter ${j} has no measurable effect on the model at the solution, so the data do not determine it` }
     }
   }
-  const scaled = Float64Array.from(jac, (v, k) => v / norms[k % p])
+  const scaled = Float64Array.from(jac, (v, k) => v / norms[Math.floor(k / n)])
   householderQr(scaled, n, p, new Float64Array(n))
   let maxDiag = 0
   let minDiag = Infinity
   for (let j = 0; j < p; j++) {
-    const v = Math.abs(scaled[j * p + j])
+    const v = Math.abs(scaled[j * n + j])
     maxDiag = Math.max(maxDiag, v)
     minDiag = Math.min(minDiag, v)
   }
@@ -289,7 +293,7 @@ function covarianceAt(
   for (let col = 0; col < p; col++) {
     const unit = new Float64Array(p)
     unit[col] = 1
-    const solved = solveUpperTriangular(scaled, p, unit)
+    const solved = solveUpperTriangular(scaled, n, p, unit)
     for (let i = 0; i < p; i++) rInverse[i * p + col] = solved[i]
   }
   const covariance: number[][] = []
@@ -320,7 +324,7 @@ function makeJacobian(
       const out = new Float64Array(n * p)
       for (let i = 0; i < n; i++) {
         const row = analytic(list, x[i])
-        for (let j = 0; j < p; j++) out[i * p + j] = sqrtWeights[i] * row[j]
+        for (let j = 0; j < p; j++) out[j * n + i] = sqrtWeights[i] * row[j]
       }
       return out
     }
@@ -338,7 +342,7 @@ function makeJacobian(
       work[j] = params[j]
       // Use the actual representable step, not h, to keep the quotient exact in its denominator.
       const span = params[j] + h - (params[j] - h)
-      for (let i = 0; i < n; i++) out[i * p + j] = (sqrtWeights[i] * (up(x[i]) - down(x[i]))) / span
+      for (let i = 0; i < n; i++) out[j * n + i] = (sqrtWeights[i] * (up(x[i]) - down(x[i]))) / span
     }
     return out
   }

@@ -1,41 +1,55 @@
 /**
- * Householder QR of a dense m×p matrix (row-major, m ≥ p), applied in place: on return the upper triangle of the
- * first p rows holds R and `rhs` holds Qᵀ·rhs. Used instead of the normal equations so that the condition number is
- * not squared. Source: Golub & Van Loan, "Matrix Computations" (3rd ed., 1996), §5.1–5.2.
+ * Householder QR of a dense m×p matrix stored column by column (element (i, j) at j·m + i, m ≥ p), applied in place:
+ * on return the upper triangle holds R and `rhs` holds Qᵀ·rhs. Used instead of the normal equations so that the
+ * condition number is not squared. Source: Golub & Van Loan, "Matrix Computations" (3rd ed., 1996), §5.1–5.2.
  */
 export function householderQr(matrix: Float64Array, rows: number, cols: number, rhs: Float64Array): void {
   for (let k = 0; k < cols; k++) {
-    let norm = 0
-    for (let i = k; i < rows; i++) norm = Math.hypot(norm, matrix[i * cols + k])
+    const colK = k * rows
+    const norm = columnNorm(matrix, colK + k, colK + rows)
     if (norm === 0) continue
-    const diagonal = matrix[k * cols + k]
+    const diagonal = matrix[colK + k]
     // Reflect onto −sign(a_kk)·‖a‖ to avoid cancellation in v_k = a_kk − α.
     const alpha = diagonal > 0 ? -norm : norm
-    matrix[k * cols + k] = diagonal - alpha
+    matrix[colK + k] = diagonal - alpha
     let vNormSquared = 0
-    for (let i = k; i < rows; i++) vNormSquared += matrix[i * cols + k] ** 2
+    for (let i = k; i < rows; i++) vNormSquared += matrix[colK + i] * matrix[colK + i]
     for (let j = k + 1; j < cols; j++) {
+      const colJ = j * rows
       let dot = 0
-      for (let i = k; i < rows; i++) dot += matrix[i * cols + k] * matrix[i * cols + j]
+      for (let i = k; i < rows; i++) dot += matrix[colK + i] * matrix[colJ + i]
       const factor = (2 * dot) / vNormSquared
-      for (let i = k; i < rows; i++) matrix[i * cols + j] -= factor * matrix[i * cols + k]
+      for (let i = k; i < rows; i++) matrix[colJ + i] -= factor * matrix[colK + i]
     }
     let dotRhs = 0
-    for (let i = k; i < rows; i++) dotRhs += matrix[i * cols + k] * rhs[i]
+    for (let i = k; i < rows; i++) dotRhs += matrix[colK + i] * rhs[i]
     const factorRhs = (2 * dotRhs) / vNormSquared
-    for (let i = k; i < rows; i++) rhs[i] -= factorRhs * matrix[i * cols + k]
-    matrix[k * cols + k] = alpha
-    for (let i = k + 1; i < rows; i++) matrix[i * cols + k] = 0
+    for (let i = k; i < rows; i++) rhs[i] -= factorRhs * matrix[colK + i]
+    matrix[colK + k] = alpha
+    for (let i = k + 1; i < rows; i++) matrix[colK + i] = 0
   }
 }
 
-/** Solves R·x = b for upper-triangular R stored in the first p rows of a row-major matrix with p columns. */
-export function solveUpperTriangular(matrix: Float64Array, cols: number, b: ArrayLike<number>): Float64Array {
+/** Solves R·x = b for the upper-triangular R in the top of a column-major matrix with `rows` rows. */
+export function solveUpperTriangular(matrix: Float64Array, rows: number, cols: number, b: ArrayLike<number>): Float64Array {
   const x = new Float64Array(cols)
   for (let i = cols - 1; i >= 0; i--) {
     let sum = b[i]
-    for (let j = i + 1; j < cols; j++) sum -= matrix[i * cols + j] * x[j]
-    x[i] = sum / matrix[i * cols + i]
+    for (let j = i + 1; j < cols; j++) sum -= matrix[j * rows + i] * x[j]
+    x[i] = sum / matrix[i * rows + i]
   }
   return x
+}
+
+/** Euclidean norm of matrix[from..to), falling back to a scaled sum when the plain one under- or overflows. */
+function columnNorm(values: Float64Array, from: number, to: number): number {
+  let sum = 0
+  for (let i = from; i < to; i++) sum += values[i] * values[i]
+  if (sum > 1e-280 && sum < 1e280) return Math.sqrt(sum)
+  let largest = 0
+  for (let i = from; i < to; i++) largest = Math.max(largest, Math.abs(values[i]))
+  if (largest === 0 || !Number.isFinite(largest)) return largest
+  let scaled = 0
+  for (let i = from; i < to; i++) scaled += (values[i] / largest) ** 2
+  return largest * Math.sqrt(scaled)
 }
