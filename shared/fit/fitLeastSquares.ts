@@ -34,7 +34,7 @@ export interface LeastSquaresOptions {
   jacobian?: (parameters: number[], x: number) => number[]
   /**
    * Converged when a step changes the scaled parameters by less than this fraction, or when the actual and the
-   * predicted relative RSS reductions both fall below its square. @default 1e-10
+   * predicted relative RSS reductions both fall below its square. @default 1e-12
    */
   relativeTolerance?: number
   /**
@@ -76,7 +76,7 @@ export function fitLeastSquares(
     minValues,
     maxValues,
     jacobian,
-    relativeTolerance = 1e-10,
+    relativeTolerance = 1e-12,
     knownResidualVariance,
   } = options
   const n = x.length
