@@ -59,7 +59,7 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
   for (const direction of ['up', 'down'] as const) {
     const positions = peaks.map((p) => (direction === 'up' ? frac(p.positionFsr) : frac(-p.positionFsr)))
     let gouy = predictedGouyRad
-    let labels: OrderLabel[] = []
+    let labels: OrderLabel[]
     for (const tolerance of [1.5 * toleranceFsr, 1.2 * toleranceFsr, toleranceFsr, toleranceFsr]) {
       labels = matchAll(peaks, positions, gouy, { maxOrder, tolerance, sidebandOffsetFsr, sidebandMaxOrder })
       gouy = refineGouy(peaks, labels, gouy, predictedGouyRad, maxGouyShiftRad)
