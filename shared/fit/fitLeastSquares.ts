@@ -30,7 +30,7 @@ export interface LeastSquaresOptions {
   minValues?: number[]
   /** Upper bounds. @default none */
   maxValues?: number[]
-  /** Analytic ∂f/∂pⱼ at x. @default central differences */
+  /** Analytic ∂f/∂pⱼ at x; the returned array is read at once, so it may be reused between calls. @default central differences */
   jacobian?: (parameters: number[], x: number) => number[]
   /**
    * Converged when a step changes the scaled parameters by less than this fraction, or when the actual and the
@@ -276,7 +276,11 @@ function covarianceAt(
       return { covariance: nanMatrix(), problem: `parameter ${j} has no measurable effect on the model at the solution, so the data do not determine it` }
     }
   }
-  const scaled = Float64Array.from(jac, (v, k) => v / norms[Math.floor(k / n)])
+  const scaled = new Float64Array(n * p)
+  for (let j = 0; j < p; j++) {
+    const inverse = 1 / norms[j]
+    for (let i = 0; i < n; i++) scaled[j * n + i] = jac[j * n + i] * inverse
+  }
   householderQr(scaled, n, p, new Float64Array(n))
   let maxDiag = 0
   let minDiag = Infinity

@@ -115,8 +115,9 @@ export function fitPeakGroup(
       return sum
     }
   }
+  // One row buffer for every sample: fitLeastSquares copies it before asking for the next row.
+  const row = new Array<number>(initialValues.length).fill(0)
   const jacobian = (params: number[], xv: number): number[] => {
-    const row = new Array<number>(params.length)
     for (let k = 0; k < peakCount; k++) shape.gradient(xv, params[3 * k], params[3 * k + 1], params[3 * k + 2], row, 3 * k)
     if (fitBaseline) row[3 * peakCount] = 1
     return row

@@ -12,8 +12,8 @@ export function householderQr(matrix: Float64Array, rows: number, cols: number, 
     // Reflect onto −sign(a_kk)·‖a‖ to avoid cancellation in v_k = a_kk − α.
     const alpha = diagonal > 0 ? -norm : norm
     matrix[colK + k] = diagonal - alpha
-    let vNormSquared = 0
-    for (let i = k; i < rows; i++) vNormSquared += matrix[colK + i] * matrix[colK + i]
+    // ‖v‖² = ‖a‖² − 2α·a_kk + α² = 2‖a‖(‖a‖ + |a_kk|), since α = −sign(a_kk)‖a‖.
+    const vNormSquared = 2 * norm * (norm + Math.abs(diagonal))
     for (let j = k + 1; j < cols; j++) {
       const colJ = j * rows
       let dot = 0
