@@ -5,19 +5,38 @@
 import { existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 import compression from 'compression'
+import cookieParser from 'cookie-parser'
 import express, { type Express } from 'express'
 import helmet from 'helmet'
 import type { Logger } from 'pino'
 import { pinoHttp } from 'pino-http'
-import type { AppConfig } from './config'
+import { analysisRoutes } from './analyses/analysisRoutes'
+import { auditRoutes } from './audit/auditRoutes'
+import type { AccountsContext } from './auth/accountsContext'
+import { authenticate } from './auth/authenticate'
+import { authRoutes } from './auth/authRoutes'
+import { csrfProtection } from './auth/csrf'
+import { mailCaptureOn, type AppConfig } from './config'
 import type { Db } from './db/knex'
 import { healthRoutes } from './health/healthRoutes'
+import { cavityRoutes } from './cavities/cavityRoutes'
+import type { AnalysisQueue } from './jobs/analysisQueue'
+import type { EventHub } from './jobs/eventHub'
+import { traceRoutes } from './traces/traceRoutes'
 import { apiNotFound, errorHandler } from './http/errors'
+import { invitationsRoutes } from './invitations/invitationsRoutes'
+import { outboxRoutes } from './mail/outboxRoutes'
+import { tokensRoutes } from './tokens/tokensRoutes'
+import { usersRoutes } from './users/usersRoutes'
 
-export interface AppContext {
+export interface AppContext extends AccountsContext {
   config: AppConfig
   db: Db
   logger: Logger
+  /** Where analyses are queued. */
+  queue: Pick<AnalysisQueue, 'enqueue'>
+  /** Analysis status events (PostgreSQL NOTIFY), for the live streams. */
+  events: EventHub
 }
 
 export function createApp(context: AppContext): Express {
@@ -38,11 +57,31 @@ export function createApp(context: AppContext): Express {
     }),
   )
   app.use(compression())
-  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }))
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      // Credentials never reach the log.
+      redact: ['req.headers.authorization', 'req.headers.cookie', 'res.headers["set-cookie"]'],
+    }),
+  )
   app.use(express.json({ limit: '1mb' }))
+  app.use(cookieParser())
 
   const api = express.Router()
   api.use(healthRoutes(db))
+  // Who is asking (API token or session cookie), then refuse cross-site writes, then the routes.
+  api.use(authenticate(db, context.sessionSecret))
+  api.use(csrfProtection(config))
+  api.use(authRoutes(context))
+  api.use(usersRoutes(db))
+  api.use(invitationsRoutes(context))
+  api.use(tokensRoutes(db))
+  api.use(auditRoutes(db))
+  api.use(cavityRoutes(context))
+  api.use(traceRoutes(context))
+  api.use(analysisRoutes(context))
+  if (mailCaptureOn(config)) api.use(outboxRoutes(db))
   api.use(apiNotFound)
   app.use('/api', api)
 

@@ -5,8 +5,13 @@ import type { Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import pino, { type Logger } from 'pino'
 import { createApp } from './app'
-import type { AppConfig } from './config'
+import { bootstrapAdmin } from './auth/bootstrapAdmin'
+import { sessionSecretSource } from './auth/sessionSecret'
+import { mailCaptureOn, publicBaseUrl, type AppConfig } from './config'
 import { createDb, type Db } from './db/knex'
+import { startAnalysisService, type AnalysisService } from './jobs/startAnalysisService'
+import { startCaptureSmtp, type CaptureSmtp } from './mail/captureSmtp'
+import { createMailer, type Mailer } from './mail/mailer'
 
 export interface RunningServer {
   /** Base URL, e.g. http://127.0.0.1:3000 */
@@ -14,6 +19,11 @@ export interface RunningServer {
   port: number
   db: Db
   logger: Logger
+  mailer: Mailer
+  /** Port of the local SMTP fake when MAIL_CAPTURE is on. */
+  mailCapturePort?: number
+  /** The analysis queue, worker threads and event hub of this process. */
+  analysis: AnalysisService
   /** Stop accepting connections, finish open requests, close the database pool. */
   stop(): Promise<void>
 }
@@ -28,7 +38,11 @@ export class PortInUseError extends Error {
 export async function startServer(config: AppConfig, options: { logger?: Logger } = {}): Promise<RunningServer> {
   const logger = options.logger ?? pino({ level: config.LOG_LEVEL })
   const db = createDb(config.DATABASE_URL, { logger })
-  const app = createApp({ config, db, logger })
+  const capture: CaptureSmtp | undefined = mailCaptureOn(config) ? await startCaptureSmtp(db, logger) : undefined
+  const mailer = createMailer(config, logger, { capturePort: capture?.port })
+  let listeningUrl = ''
+  const analysis = await startAnalysisService(config, { db, logger, threads: config.WORKER_THREADS })
+  const app = createApp({ config, db, logger, mailer, queue: analysis.queue, events: analysis.events, sessionSecret: sessionSecretSource(config, db, logger), publicUrl: () => publicBaseUrl(config, listeningUrl) })
 
   const server = await new Promise<Server>((resolve, reject) => {
     const listening = app.listen(config.PORT, config.HOST)
@@ -37,17 +51,30 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
       reject(error.code === 'EADDRINUSE' ? new PortInUseError(config.HOST, config.PORT) : error)
     })
   }).catch(async (error: unknown) => {
+    await analysis.stop()
+    await capture?.stop()
     await db.destroy()
     throw error
   })
 
   const port = (server.address() as AddressInfo).port
+  listeningUrl = `http://${config.HOST}:${port}`
+  // The first admin; a database that is down now must not stop the server (health reports it).
+  await bootstrapAdmin(db, { email: config.CAVITRACE_ADMIN_EMAIL, password: config.CAVITRACE_ADMIN_PASSWORD }).then(
+    (result) => {
+      if (result === 'created' || result === 'promoted') logger.info({ email: config.CAVITRACE_ADMIN_EMAIL, result }, 'first admin set up from CAVITRACE_ADMIN_EMAIL')
+    },
+    (error: unknown) => logger.error({ err: error }, 'could not set up the first admin'),
+  )
   let stopping: Promise<void> | undefined
   return {
-    url: `http://${config.HOST}:${port}`,
+    url: listeningUrl,
     port,
     db,
     logger,
+    mailer,
+    mailCapturePort: capture?.port,
+    analysis,
     stop() {
       stopping ??= (async () => {
         await new Promise<void>((resolve) => {
@@ -56,6 +83,9 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
           // Long-lived connections (event streams) must not hold the shutdown forever.
           setTimeout(() => server.closeAllConnections(), 5000).unref()
         })
+        await analysis.stop()
+        await mailer.settle()
+        await capture?.stop()
         await db.destroy()
       })()
       return stopping

@@ -1,0 +1,54 @@
+/** Sign-in and password reset, free of HTTP: the routes pass plain inputs and get plain results. */
+import { passwordProblem } from '../../shared/auth/passwordPolicy'
+import type { LoginInput, ResetInput, ResetRequestInput } from '../../shared/auth/schemas'
+import { recordAudit } from '../audit/auditData'
+import { HttpError } from '../http/errors'
+import { passwordResetMail } from '../mail/accountMessages'
+import { hashSecret, newLinkToken } from '../tokens/secretTokens'
+import { findUserByEmail, recordSignIn, updateUser, type UserRecord } from '../users/usersData'
+import type { AccountsContext } from './accountsContext'
+import { hashPassword, verifyPassword } from './passwords'
+import { consumePasswordReset, insertPasswordReset } from './passwordResetsData'
+
+/** Reset links expire this long after they are sent. */
+export const resetLinkLifetimeMs = 60 * 60 * 1000
+
+/** Check e-mail and password; the signed-in user, or a 401 that does not say which of the two was wrong. */
+export async function signIn(context: AccountsContext, input: LoginInput, ip: string | null): Promise<UserRecord> {
+  const { db } = context
+  const user = await findUserByEmail(db, input.email)
+  const matches = await verifyPassword(user?.passwordHash, input.password)
+  if (!user || !matches || user.disabledAt) {
+    const reason = !user ? 'unknown_email' : !matches ? 'wrong_password' : 'disabled'
+    await recordAudit(db, { event: 'auth.sign_in_failed', subject: input.email, ip, details: { reason }, actor: user ? { id: user.id, email: user.email } : null })
+    if (user && matches && user.disabledAt) throw new HttpError(403, 'account_disabled', 'This account has been disabled. Ask an administrator if you need it back.')
+    throw new HttpError(401, 'wrong_credentials', 'That e-mail address and password do not match an account.')
+  }
+  await recordSignIn(db, user.id)
+  await recordAudit(db, { event: 'auth.sign_in', actor: { id: user.id, email: user.email }, subject: user.email, ip })
+  return user
+}
+
+/** Send a reset link when the address belongs to an active account; say nothing either way. */
+export async function requestPasswordReset(context: AccountsContext, input: ResetRequestInput, ip: string | null): Promise<void> {
+  const { db, mailer } = context
+  const user = await findUserByEmail(db, input.email)
+  await recordAudit(db, { event: 'auth.reset_requested', subject: input.email, ip, details: { known: Boolean(user && !user.disabledAt) } })
+  if (!user || user.disabledAt) return
+  const { secret, hash } = newLinkToken()
+  await insertPasswordReset(db, { userId: user.id, hash, expiresAt: new Date(Date.now() + resetLinkLifetimeMs) })
+  mailer.sendLater(passwordResetMail({ to: user.email, name: user.name, baseUrl: context.publicUrl(), token: secret }))
+}
+
+/** Set a new password from a reset link; every earlier session of that person ends. */
+export async function resetPassword(context: AccountsContext, input: ResetInput, ip: string | null): Promise<void> {
+  const { db } = context
+  await db.transaction(async (trx) => {
+    const user = await consumePasswordReset(trx, hashSecret(input.token), async (candidate) => {
+      const problem = passwordProblem(input.password, { email: candidate.email, name: candidate.name })
+      if (problem) throw new HttpError(400, 'weak_password', problem)
+    })
+    await updateUser(trx, user.id, { passwordHash: await hashPassword(input.password), endSessions: true })
+    await recordAudit(trx, { event: 'auth.password_reset', actor: { id: user.id, email: user.email }, subject: user.email, ip })
+  })
+}

@@ -1,0 +1,83 @@
+/**
+ * Who may do what, defined once. The server's `requirePermission(action)` middleware, the client's
+ * navigation and its route guards all read this table; nothing else checks a role by name.
+ */
+
+/** Roles, from most to least trusted. */
+export const roles = ['admin', 'lead', 'experimenter', 'technician', 'viewer'] as const
+export type Role = (typeof roles)[number]
+
+/** Named actions. A route or a menu needs exactly one of them. */
+export const actions = [
+  'lab.read',
+  'cavities.write',
+  'targets.write',
+  'traces.upload',
+  'analyses.run',
+  'notes.write',
+  'logbook.write',
+  'lenses.write',
+  'tokens.manageOwn',
+  'tokens.manageAll',
+  'users.manage',
+  'audit.read',
+  'outbox.read',
+] as const
+export type Action = (typeof actions)[number]
+
+/** One sentence per action, shown to admins next to the roles. */
+export const actionSummaries: Record<Action, string> = {
+  'lab.read': 'See cavities, traces, analyses, history, the logbook and the lens kit.',
+  'cavities.write': 'Create, edit and archive cavities.',
+  'targets.write': 'Set mode-match and finesse targets and their alerts.',
+  'traces.upload': 'Upload oscilloscope traces.',
+  'analyses.run': 'Run and re-run analyses.',
+  'notes.write': 'Write notes on traces and analyses.',
+  'logbook.write': 'Write maintenance-log entries with attachments.',
+  'lenses.write': 'Edit the lab’s lens kit.',
+  'tokens.manageOwn': 'Create, list and revoke one’s own API tokens.',
+  'tokens.manageAll': 'List and revoke anyone’s API tokens.',
+  'users.manage': 'Invite people, change roles, disable accounts.',
+  'audit.read': 'Read the audit log of security events.',
+  'outbox.read': 'Read the development mail outbox.',
+}
+
+const everyone: readonly Action[] = ['lab.read', 'tokens.manageOwn']
+const experimenterActions: readonly Action[] = [...everyone, 'traces.upload', 'analyses.run', 'notes.write']
+const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'logbook.write']
+// A lead runs the lab's bench work as well as its plans, so it may do what experimenters and technicians do.
+const leadActions: readonly Action[] = [...new Set([...experimenterActions, ...technicianActions, 'cavities.write', 'targets.write', 'lenses.write'] as Action[])]
+
+/** The permission table: each role and the actions it may perform. */
+export const permissionTable: Readonly<Record<Role, readonly Action[]>> = {
+  admin: actions,
+  lead: leadActions,
+  experimenter: experimenterActions,
+  technician: technicianActions,
+  viewer: everyone,
+}
+
+/** Human labels and one-line descriptions of the roles. */
+export const roleLabels: Record<Role, { label: string; summary: string }> = {
+  admin: { label: 'Admin', summary: 'People, roles, tokens, the audit log — and everything else.' },
+  lead: { label: 'Lead', summary: 'Creates and edits cavities, targets and alerts; sees and compares all; bench work too.' },
+  experimenter: { label: 'Experimenter', summary: 'Uploads traces, runs and re-runs analyses, writes notes.' },
+  technician: { label: 'Technician', summary: 'Keeps the maintenance log with attachments and uploads traces.' },
+  viewer: { label: 'Viewer', summary: 'Reads everything, changes nothing.' },
+}
+
+/** May `role` perform `action`? An unknown or missing role may do nothing. */
+export function can(role: Role | null | undefined, action: Action): boolean {
+  if (!role) return false
+  return permissionTable[role]?.includes(action) ?? false
+}
+
+/** The actions a role may perform (a copy, safe to hand out). */
+export function actionsOf(role: Role): Action[] {
+  return [...permissionTable[role]]
+}
+
+/** The roles that may perform `action`. */
+export function rolesAllowed(action: Action): Role[] {
+  return roles.filter((role) => can(role, action))
+}
