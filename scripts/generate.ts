@@ -5,7 +5,8 @@
  *   npx tsx scripts/generate.ts --list
  *
  * FILE.csv has the columns time_s, ramp_V, transmission_V; FILE.truth.json beside it holds the truth
- * (TEM00 fraction, order shares, FSR, finesse, Gouy phase, every peak) and the options used.
+ * (TEM00 fraction, order shares, FSR, finesse, Gouy phase, every peak) and the options used, and
+ * FILE.cavity.json the geometry (with the modulation frequency, if any) in the analyze command's format.
  * On bad input it exits non-zero and prints {"error": {"code", "message"}}.
  */
 import { writeFileSync } from 'node:fs'
@@ -53,6 +54,12 @@ function main(argv: string[]): void {
   writeFileSync(out, toCsv(trace))
   const truthPath = out.replace(/\.csv$/, '.truth.json')
   writeFileSync(truthPath, JSON.stringify({ preset: name, options, truth: trace.truth }, null, 2) + '\n')
+  if (options.cavity) {
+    // Ready for the analyze command: npm run analyze -- FILE.csv --cavity FILE.cavity.json
+    const cavityPath = out.replace(/\.csv$/, '.cavity.json')
+    const geometry = { ...options.cavity, ...(options.modulationMHz === undefined ? {} : { modulationMHz: options.modulationMHz }) }
+    writeFileSync(cavityPath, JSON.stringify(geometry, null, 2) + '\n')
+  }
   const { truth } = trace
   console.log(
     `${out}: ${trace.tSeconds.length} samples, TEM00 fraction ${truth.fundamentalFraction.toFixed(4)}, ` +

@@ -138,7 +138,14 @@ export function generateSweptTrace(options: SweptTraceOptions): SweptTrace {
   }
 
   const peaks = listPeaks(families, sweep.timeOfDetuning, startDetuningFsr, fsrCount, direction)
-  const fsrSeconds = (sweepFractionOfRecord * recordSeconds) / fsrCount
+  // Mean TEM00 spacing as a perfect analysis would measure it: (last − first)/(count − 1) of the sweep's TEM00 peaks.
+  // With a nonlinear piezo it differs from the sweep-wide mean, which is kept separately.
+  const sweepMeanFsrSeconds = (sweepFractionOfRecord * recordSeconds) / fsrCount
+  const fundamentalTimes = peaks.filter((p) => p.order === 0 && p.kind === 'carrier').map((p) => p.t)
+  const fsrSeconds =
+    fundamentalTimes.length >= 2
+      ? (fundamentalTimes[fundamentalTimes.length - 1] - fundamentalTimes[0]) / (fundamentalTimes.length - 1)
+      : sweepMeanFsrSeconds
   return {
     tSeconds,
     transmissionV,
@@ -148,10 +155,11 @@ export function generateSweptTrace(options: SweptTraceOptions): SweptTrace {
       fundamentalFraction: orderShares[0],
       orderShares,
       fsrSeconds,
+      sweepMeanFsrSeconds,
       fsrHz,
       finesse,
       gouyOneWayRad,
-      samplesPerLinewidth: fsrSeconds / finesse / sampleIntervalSeconds,
+      samplesPerLinewidth: sweepMeanFsrSeconds / finesse / sampleIntervalSeconds,
       direction,
       sweepStartSeconds: sweep.sweepStartSeconds,
       sweepEndSeconds: sweep.sweepEndSeconds,

@@ -39,7 +39,7 @@ export interface SweptTraceOptions {
   sampleIntervalSeconds?: number
   /** Time of the first sample. @default −(sampleCount/2)·sampleIntervalSeconds (trigger centred) */
   startTimeSeconds?: number
-  /** TEM00 carrier peak height before noise, in volts. @default 1 */
+  /** TEM00 carrier peak height before noise, in volts (the largest order's when TEM00 has no power). @default 1 */
   peakHeightV?: number
   /** White-noise rms as a fraction of the TEM00 height. @default 0.003 */
   noiseFraction?: number
@@ -77,7 +77,7 @@ export interface SimulatedPeakTruth {
   kind: 'carrier' | 'sideband'
   /** Relative integrated power (area per FSR, in units of the total carrier power: carriers sum to 1 per FSR). */
   power: number
-  /** Peak height in volts before drift, low-pass and noise (for a slow sweep). */
+  /** This peak's own Airy height in volts before drift, low-pass, ringing and noise (split sub-peaks may overlap). */
   heightV: number
 }
 
@@ -86,13 +86,18 @@ export interface SweptTraceTruth {
   fundamentalFraction: number
   /** Carrier power share per order, index = order N, sums to 1. */
   orderShares: number[]
-  /** Mean TEM00 spacing on the time axis (over the sweep part), seconds. */
+  /**
+   * Mean TEM00 spacing on the time axis: (last − first)/(count − 1) over the TEM00 peaks of the main sweep, seconds
+   * (what an analysis averaging its TEM00 spacings should find). Falls back to `sweepMeanFsrSeconds` with fewer than two.
+   */
   fsrSeconds: number
+  /** Sweep duration / fsrCount: the mean time per FSR over the whole main sweep, seconds (equal to fsrSeconds for a linear piezo). */
+  sweepMeanFsrSeconds: number
   /** FSR in Hz when known (from `cavity`), else null. */
   fsrHz: number | null
   finesse: number
   gouyOneWayRad: number
-  /** Linewidth (FSR / finesse) in samples at the mean sweep rate. */
+  /** Linewidth (FSR / finesse) in samples at the mean sweep rate (sweepMeanFsrSeconds / finesse / sample interval). */
   samplesPerLinewidth: number
   direction: 'up' | 'down'
   /** Start and end of the main sweep (the monotonic part; the rest is flyback or turnaround), seconds. */

@@ -39,8 +39,10 @@ describe('generateSweptTrace sweep and ramp', () => {
       const top = argMax(transmissionV, indexAt(tSeconds, peak.t) - 100, indexAt(tSeconds, peak.t) + 100)
       expect(Math.abs(refinedPeakTime(tSeconds, transmissionV, top) - peak.t)).toBeLessThan(0.1 * sampleIntervalSeconds)
     }
-    // The mean spacing over the sweep is still sweep time / FSRs.
-    expect(truth.fsrSeconds).toBeCloseTo((truth.sweepEndSeconds - truth.sweepStartSeconds) / 4.3, 12)
+    // fsrSeconds is the mean TEM00 spacing, as an analysis would average it; the sweep-wide mean is kept apart.
+    expect(truth.fsrSeconds).toBeCloseTo((fundamentals[3].t - fundamentals[0].t) / 3, 12)
+    expect(truth.sweepMeanFsrSeconds).toBeCloseTo((truth.sweepEndSeconds - truth.sweepStartSeconds) / 4.3, 12)
+    expect(Math.abs(truth.fsrSeconds / truth.sweepMeanFsrSeconds - 1)).toBeGreaterThan(1e-3)
   })
 
   it('when the ramp is a sawtooth then it rises through the main sweep and flies back outside it', () => {

@@ -40,6 +40,7 @@ describe('generateSweptTrace truth against its own signal', () => {
     expect(b.t - a.t).toBeCloseTo(truth.fsrSeconds, 12)
     // Sweep part = 0.9 of a 2 s record (200 000 × 10 µs) over 2.2 FSR.
     expect(truth.fsrSeconds).toBeCloseTo((0.9 * 2) / 2.2, 12)
+    expect(truth.sweepMeanFsrSeconds).toBeCloseTo(truth.fsrSeconds, 12)
     expect(truth.samplesPerLinewidth).toBeCloseTo(truth.fsrSeconds / 1000 / 1e-5, 9)
   })
 
