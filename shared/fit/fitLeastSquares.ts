@@ -1,5 +1,6 @@
 import { EngineError } from '../errors'
-import { householderQr, solveUpperTriangular } from './householderQr'
+import { householderQr } from './householderQr'
+import { solveUpperTriangular } from './solveUpperTriangular'
 
 /** Result of a weighted nonlinear least-squares fit. */
 export interface LeastSquaresResult {

@@ -57,7 +57,7 @@ const MIN_FWHM_FRACTION = 1e-4
  * 'lorentzian': h / (1 + ((x − c)/(fwhm/2))²), area = π h fwhm / 2.
  * 'airy': h / (1 + (2F/π)² sin²(π(x − c)/period)) with F = period/fwhm, area = h·period/√(1 + (2F/π)²) (one period).
  * Sources: Lorentzian limit and Airy function — Born & Wolf, "Principles of Optics", §7.6; Siegman, "Lasers" (1986),
- * ch. 11. Area of the Airy function over one period: Gradshteyn & Ryzhik, "Table of Integrals", 2.562.1 (from memory).
+ * ch. 11. Airy area over one period from the standard integral ∫₀^π dφ / (1 + K sin²φ) = π / √(1 + K).
  * x and y are shifted and scaled internally (x to the first guess's width, y to the tallest guess) for conditioning.
  */
 export function fitPeakGroup(

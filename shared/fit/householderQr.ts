@@ -30,17 +30,6 @@ export function householderQr(matrix: Float64Array, rows: number, cols: number, 
   }
 }
 
-/** Solves R·x = b for the upper-triangular R in the top of a column-major matrix with `rows` rows. */
-export function solveUpperTriangular(matrix: Float64Array, rows: number, cols: number, b: ArrayLike<number>): Float64Array {
-  const x = new Float64Array(cols)
-  for (let i = cols - 1; i >= 0; i--) {
-    let sum = b[i]
-    for (let j = i + 1; j < cols; j++) sum -= matrix[j * rows + i] * x[j]
-    x[i] = sum / matrix[i * rows + i]
-  }
-  return x
-}
-
 /** Euclidean norm of matrix[from..to), falling back to a scaled sum when the plain one under- or overflows. */
 function columnNorm(values: Float64Array, from: number, to: number): number {
   let sum = 0
