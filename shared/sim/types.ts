@@ -21,7 +21,7 @@ export interface SweptTraceOptions {
   finesse: number
   /** Relative power per transverse order, index = order N; normalised by the generator (truth reports shares). */
   orderPowers: number[]
-  /** Number of samples, 2,500 … 2,000,000. */
+  /** Number of samples: typically 2,500 … 2,000,000 (accepted 16 … 20,000,000). */
   sampleCount: number
   /** How many FSRs the sweep part covers (e.g. 2.3). */
   fsrCount: number
@@ -29,11 +29,17 @@ export interface SweptTraceOptions {
   sweepFractionOfRecord?: number
   /** Optical frequency increasing ('up') or decreasing ('down') with time during the sweep. @default 'up' */
   direction?: 'up' | 'down'
-  /** Sawtooth (fast flyback) or triangle (reverse sweep). @default 'sawtooth' */
+  /**
+   * Sawtooth: the flyback fills the rest of the record. Triangle: the ramp reverses at the sweep's speed (period
+   * 2 × sweep time). Either way the main sweep is centred in the record. @default 'sawtooth'
+   */
   rampShape?: 'sawtooth' | 'triangle'
   /** Optical detuning at the start of the sweep, in FSR units above a TEM00 resonance. @default seeded, in [0, 1) */
   startDetuningFsr?: number
-  /** Fractional piezo nonlinearity: 0.15 → ±15 % local sweep-rate change. The ramp channel stays linear. @default 0 */
+  /**
+   * Fractional piezo nonlinearity k (−0.9 … 0.9): the local sweep rate runs from about (1 − 0.42k) to (1 + k) times its
+   * mean across the sweep (quadratic + cubic response). The ramp channel stays linear in time. @default 0
+   */
   nonlinearity?: number
   /** Sample interval in seconds. @default 1e-5 */
   sampleIntervalSeconds?: number
