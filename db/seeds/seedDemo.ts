@@ -3,9 +3,20 @@
  * Each area of the app adds its own demo rows here as it lands.
  */
 import type { Knex } from 'knex'
+import { demoPassword, demoPeople } from '../../shared/auth/demoAccounts'
+import { hashPassword } from '../../server/auth/passwords'
 
 /** Bump when the demo data changes shape, so older demo databases are topped up. */
-export const demoVersion = 1
+export const demoVersion = 2
+
+/** One invented person per role, all with the documented demo password — never in production. */
+async function seedDemoPeople(trx: Knex): Promise<void> {
+  if (process.env.NODE_ENV === 'production') return
+  const passwordHash = await hashPassword(demoPassword)
+  for (const person of demoPeople) {
+    await trx('users').insert({ email: person.email, name: person.name, role: person.role, password_hash: passwordHash }).onConflict('email').ignore()
+  }
+}
 
 export async function seedDemo(knex: Knex): Promise<{ seeded: boolean }> {
   const row = await knex('app_settings').where({ key: 'demo_version' }).first()
@@ -15,6 +26,7 @@ export async function seedDemo(knex: Knex): Promise<{ seeded: boolean }> {
       .insert({ key: 'lab_name', value: JSON.stringify('Halvorsen Lab for Precision Optics (demo)') })
       .onConflict('key')
       .ignore()
+    await seedDemoPeople(trx)
     await trx('app_settings')
       .insert({ key: 'demo_version', value: JSON.stringify(demoVersion), updated_at: trx.fn.now() })
       .onConflict('key')

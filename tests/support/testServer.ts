@@ -1,5 +1,6 @@
 /** Start the real server in-process on port 0 against a fresh test database. */
 import pino from 'pino'
+import { seedDemo } from '../../db/seeds/seedDemo'
 import { loadConfig, type AppConfig } from '../../server/config'
 import { startServer, type RunningServer } from '../../server/server'
 import { createTestDatabase, type TestDatabase } from './testDatabase'
@@ -11,10 +12,15 @@ export interface TestServer extends RunningServer {
   close(): Promise<void>
 }
 
-export async function startTestServer(env: Record<string, string> = {}): Promise<TestServer> {
+/**
+ * `env` overrides configuration variables; `seedDemo: true` adds the development demo data,
+ * including one demo person per role (see shared/auth/demoAccounts.json).
+ */
+export async function startTestServer(env: Record<string, string> = {}, options: { seedDemo?: boolean } = {}): Promise<TestServer> {
   const database = await createTestDatabase()
   const config = loadConfig({ NODE_ENV: 'test', PORT: '0', LOG_LEVEL: 'silent', DATABASE_URL: database.url, CLIENT_DIR: process.env.CLIENT_DIR ?? 'dist/client', ...env })
   const running = await startServer(config, { logger: pino({ level: 'silent' }) })
+  if (options.seedDemo) await seedDemo(running.db)
   return {
     ...running,
     database,
