@@ -49,6 +49,11 @@ describe('generateSweptTrace detector, noise and digitiser', () => {
     // Sample rms of 100 000 Gaussian deviates: relative spread ≈ 1/√(2n) ≈ 0.2 % (common practice).
     expect(Math.sqrt(sumSq / n) / 0.006).toBeCloseTo(1, 1)
     expect(Math.abs(sum / n)).toBeLessThan(1e-4)
+    // On each TEM00 centre the noisy trace reads height + dark offset within 5σ (σ = 6 mV).
+    for (const peak of noisy.truth.peaks.filter((p) => p.order === 0)) {
+      const value = noisy.transmissionV[indexAt(noisy.tSeconds, peak.t)]
+      expect(Math.abs(value - (peak.heightV + 0.05))).toBeLessThan(5 * 0.006)
+    }
     // Between resonances the clean signal rests on the dark offset (Airy floor 1/(1 + (2𝓕/π)²) ≈ 6e-5 of 2 V).
     let minimum = Infinity
     for (const v of clean.transmissionV) minimum = Math.min(minimum, v)
