@@ -1,5 +1,12 @@
 import { CellKind } from './classifyCell'
 
+// Local copies: a property read through the imported object costs a call per cell in some module loaders.
+const KIND_BLANK = CellKind.Blank
+const KIND_CLIPPED = CellKind.Clipped
+const KIND_MISSING = CellKind.Missing
+const KIND_NUMBER = CellKind.Number
+const KIND_TEXT = CellKind.Text
+
 /** Columns read from the body, with counts of everything that was not a plain number. */
 export interface ScannedColumns {
   values: Float64Array[]
@@ -27,6 +34,8 @@ export interface ColumnSink {
   readonly rowKinds: Uint8Array
   /** Take the row held in rowValues/rowKinds; `line` is its 0-based line from the body start. */
   commitRow(line: number): void
+  /** Faster `commitRow` for a row known to hold a number in every requested column. */
+  commitNumbers(line: number): void
   finish(quoted?: boolean): ScannedColumns
 }
 
@@ -48,7 +57,7 @@ export function createColumnSink(width: number, initialCapacity = 1024): ColumnS
 
   function ensureRoom(): void {
     if (rows < capacity) return
-    capacity *= 2
+    capacity = Math.ceil(capacity * 1.5)
     out = out.map((array) => {
       const bigger = new Float64Array(capacity)
       bigger.set(array)
@@ -63,9 +72,9 @@ export function createColumnSink(width: number, initialCapacity = 1024): ColumnS
     let absent = 0
     for (let k = 0; k < width; k++) {
       const kind = rowKinds[k]
-      if (kind === CellKind.Number) numbers++
-      else if (kind === CellKind.Missing || kind === CellKind.Clipped) flagged++
-      else if (kind === CellKind.Text) texts++
+      if (kind === KIND_NUMBER) numbers++
+      else if (kind === KIND_MISSING || kind === KIND_CLIPPED) flagged++
+      else if (kind === KIND_TEXT) texts++
       else if (kind === 0) absent++
     }
     if (numbers === 0 && flagged === 0) {
@@ -87,15 +96,15 @@ export function createColumnSink(width: number, initialCapacity = 1024): ColumnS
     ensureRoom()
     for (let k = 0; k < width; k++) {
       const kind = rowKinds[k]
-      if (kind === CellKind.Number) {
+      if (kind === KIND_NUMBER) {
         out[k][rows] = rowValues[k]
         continue
       }
       out[k][rows] = NaN
-      if (kind === CellKind.Blank) counts.blankCells++
-      else if (kind === CellKind.Missing) counts.missingCells++
-      else if (kind === CellKind.Clipped) counts.clippedCells++
-      else if (kind === CellKind.Text) counts.textCells++
+      if (kind === KIND_BLANK) counts.blankCells++
+      else if (kind === KIND_MISSING) counts.missingCells++
+      else if (kind === KIND_CLIPPED) counts.clippedCells++
+      else if (kind === KIND_TEXT) counts.textCells++
     }
     if (absent > 0) {
       counts.shortRows++
@@ -108,7 +117,16 @@ export function createColumnSink(width: number, initialCapacity = 1024): ColumnS
     return { values: out.map((array) => trimArray(array, rows)), rowCount: rows, ...counts, quoted }
   }
 
-  return { rowValues, rowKinds, commitRow, finish }
+  function commitNumbers(line: number): void {
+    if (pendingBlankRows > 0 || rows >= capacity) {
+      commitRow(line)
+      return
+    }
+    for (let k = 0; k < width; k++) out[k][rows] = rowValues[k]
+    rows++
+  }
+
+  return { rowValues, rowKinds, commitRow, commitNumbers, finish }
 }
 
 /** Cut to length; copy only when much of the buffer would be wasted. */

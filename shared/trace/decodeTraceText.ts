@@ -4,11 +4,17 @@ import { EngineError } from '../errors'
 export interface DecodedTraceText {
   text: string
   encoding: 'utf-8' | 'latin-1'
+  /** True when `text` holds the whole file, false when only its first lines were decoded. */
+  complete: boolean
+  /** Byte offset in the input of a character offset in `text`. */
+  byteOffset(charOffset: number): number
 }
 
 export interface DecodeTraceTextOptions {
   /** Largest accepted input in bytes. @default 209715200 (200 MiB) */
   maxBytes?: number
+  /** Decode only this many first lines (the body is read from the bytes directly). @default Infinity */
+  headLines?: number
 }
 
 const DEFAULT_MAX_BYTES = 200 * 1024 * 1024
@@ -20,7 +26,7 @@ const SNIFF_BYTES = 8192
  * back to Latin-1 (Windows-1252) when the bytes are not valid UTF-8 (older exports write "µs" as 0xB5).
  */
 export function decodeTraceText(bytes: Uint8Array, options: DecodeTraceTextOptions = {}): DecodedTraceText {
-  const { maxBytes = DEFAULT_MAX_BYTES } = options
+  const { maxBytes = DEFAULT_MAX_BYTES, headLines = Infinity } = options
   assertBytes(bytes)
   if (bytes.length > maxBytes) {
     throw new EngineError(
@@ -33,18 +39,36 @@ export function decodeTraceText(bytes: Uint8Array, options: DecodeTraceTextOptio
   }
   assertNotBinary(bytes)
 
+  const end = endOfLines(bytes, headLines)
+  const part = end === bytes.length ? bytes : bytes.subarray(0, end)
   let text: string
   let encoding: DecodedTraceText['encoding'] = 'utf-8'
   try {
-    text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes)
+    text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(part)
   } catch {
-    text = new TextDecoder('windows-1252').decode(bytes)
+    text = new TextDecoder('windows-1252').decode(part)
     encoding = 'latin-1'
   }
   assertNotMarkup(text)
-  return { text, encoding }
+  const bomBytes = encoding === 'utf-8' && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0
+  const byteOffset = (charOffset: number): number =>
+    encoding === 'latin-1' ? charOffset : bomBytes + new TextEncoder().encode(text.slice(0, charOffset)).length
+  return { text, encoding, complete: end === bytes.length, byteOffset }
 }
 
+/** Byte offset just after the first `lines` line ends (or the end of the input). */
+function endOfLines(bytes: Uint8Array, lines: number): number {
+  if (!Number.isFinite(lines)) return bytes.length
+  // Old files end lines with a bare carriage return: count those when there is no line feed at all.
+  const end = bytes.indexOf(0x0a) >= 0 ? 0x0a : 0x0d
+  let position = 0
+  for (let k = 0; k < lines; k++) {
+    const found = bytes.indexOf(end, position)
+    if (found < 0) return bytes.length
+    position = found + 1
+  }
+  return position
+}
 function assertBytes(bytes: unknown): asserts bytes is Uint8Array {
   if (!(bytes instanceof Uint8Array)) {
     throw new EngineError('invalid_input', 'The trace must be given as bytes (a Uint8Array).')

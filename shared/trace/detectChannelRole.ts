@@ -43,25 +43,29 @@ export function detectChannelRole(values: Float64Array, options: DetectChannelRo
   // Where the samples sit within the range (ten levels), and how much variance a segment average explains.
   const levels = new Float64Array(10)
   const segmentCount = Math.max(1, Math.min(segments, Math.floor(n / 4)))
-  const segmentSum = new Float64Array(segmentCount)
-  const segmentN = new Float64Array(segmentCount)
+  const levelScale = 10 / range
   let totalSquares = 0
-  for (let i = 0; i < n; i++) {
-    const v = values[i]
-    if (!Number.isFinite(v)) continue
-    levels[Math.min(9, Math.floor(((v - min) / range) * 10))]++
-    const s = Math.floor((i * segmentCount) / n)
-    segmentSum[s] += v
-    segmentN[s]++
-    totalSquares += (v - mean) * (v - mean)
-  }
   let residualSquares = 0
-  for (let i = 0; i < n; i++) {
-    const v = values[i]
-    if (!Number.isFinite(v)) continue
-    const s = Math.floor((i * segmentCount) / n)
-    const d = v - segmentSum[s] / segmentN[s]
-    residualSquares += d * d
+  for (let s = 0; s < segmentCount; s++) {
+    const from = Math.floor((s * n) / segmentCount)
+    const to = Math.floor(((s + 1) * n) / segmentCount)
+    let segmentSum = 0
+    let segmentN = 0
+    for (let i = from; i < to; i++) {
+      const v = values[i]
+      if (v !== v) continue // NaN
+      segmentSum += v
+      segmentN++
+      const level = ((v - min) * levelScale) | 0
+      levels[level > 9 ? 9 : level]++
+      totalSquares += (v - mean) * (v - mean)
+    }
+    if (segmentN === 0) continue
+    const segmentMean = segmentSum / segmentN
+    for (let i = from; i < to; i++) {
+      const d = values[i] - segmentMean
+      if (d === d) residualSquares += d * d
+    }
   }
   const smoothShare = totalSquares > 0 ? 1 - residualSquares / totalSquares : 0
   const lowShare = (levels[0] + levels[1] + levels[2] * 0.5) / finite

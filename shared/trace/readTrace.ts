@@ -11,6 +11,8 @@ import type { ChannelRole, ReadTraceOptions, Trace, TraceChannel } from './types
 /** Fewer samples than this cannot hold a sweep worth analysing. */
 export const MIN_SAMPLES = 16
 const DEFAULT_MAX_BYTES = 200 * 1024 * 1024
+/** Lines decoded and inspected to find the layout. */
+const HEAD_LINES = 400
 /** Short rows beyond this share of the body mean the columns do not line up. */
 const MAX_SHORT_ROW_SHARE = 0.05
 const ROLES: readonly ChannelRole[] = ['transmission', 'ramp', 'reflection', 'unknown']
@@ -25,15 +27,20 @@ export function readTrace(bytes: Uint8Array, options: ReadTraceOptions = {}): Tr
   const { sampleIntervalSeconds, maxBytes = DEFAULT_MAX_BYTES, roles = {} } = options
   assertOptions(sampleIntervalSeconds, maxBytes, roles)
 
-  const { text, encoding } = decodeTraceText(bytes, { maxBytes })
-  const layout = sniffTraceLayout(text)
+  // Only the first lines are decoded to text; the body is read straight from the bytes.
+  const head = decodeTraceText(bytes, { maxBytes, headLines: HEAD_LINES })
+  const { encoding } = head
+  const layout = sniffTraceLayout(head.text, { headLines: HEAD_LINES })
   const columns = layout.timeColumn !== null && layout.timeKind === 'time' ? [layout.timeColumn] : []
   const firstChannel = columns.length
   for (const channel of layout.channels) columns.push(channel.column)
 
-  const readOptions = { start: layout.bodyStart, delimiter: layout.delimiter, decimalComma: layout.decimalComma, columns }
-  let scanned = scanNumericColumns(text, readOptions)
-  if (scanned.quoted) scanned = parseQuotedColumns(text, readOptions)
+  const readOptions = { delimiter: layout.delimiter, decimalComma: layout.decimalComma, columns }
+  let scanned = scanNumericColumns(bytes, { ...readOptions, start: head.byteOffset(layout.bodyStart) })
+  if (scanned.quoted) {
+    const whole = head.complete ? head : decodeTraceText(bytes, { maxBytes })
+    scanned = parseQuotedColumns(whole.text, { ...readOptions, start: layout.bodyStart })
+  }
   const n = scanned.rowCount
   assertBody(scanned, layout)
 

@@ -1,9 +1,15 @@
 import { CellKind, classifyCell } from './classifyCell'
 import { createColumnSink, type ScannedColumns } from './createColumnSink'
 
+// Local copies: a property read through the imported object costs a call per cell in some module loaders.
+const KIND_NUMBER = CellKind.Number
+
 export interface ScanNumericColumnsOptions {
-  /** Character offset of the first body line. @default 0 */
+  /** Offset of the first body line: a byte offset for `scanNumericColumns`, a character offset for the
+   * quote-aware reader. @default 0 */
   start?: number
+  /** Rows expected, to size the arrays (they grow when it is short). @default estimated from line lengths */
+  expectedRows?: number
   /** One character: ',', ';' or '\t'. @default ',' */
   delimiter?: string
   /** Read "1,5" as 1.5 (then the delimiter is not a comma). @default false */
@@ -25,13 +31,14 @@ const QUOTE = 34
 const SPACE = 32
 
 /**
- * Read the requested columns of a plain numeric body in one pass over the string with charCodeAt: no per-row
- * arrays, numbers parsed in place (exactly; anything unusual goes through `classifyCell`). Empty lines are
+ * Read the requested columns of a plain numeric body in one pass over the bytes (UTF-8 and Latin-1 agree on
+ * every character a number, delimiter or line end uses): no decoded string, no per-row arrays, numbers parsed
+ * in place (exactly; anything unusual goes through `classifyCell`). Empty lines are
  * skipped; rows with no number in any requested column are skipped and counted; blank rows between data rows
  * become NaN samples. Stops early with `quoted: true` at the first quote character.
  */
-export function scanNumericColumns(text: string, options: ScanNumericColumnsOptions): ScannedColumns {
-  const { start = 0, delimiter = ',', decimalComma = false, columns } = options
+export function scanNumericColumns(bytes: Uint8Array, options: ScanNumericColumnsOptions): ScannedColumns {
+  const { start = 0, delimiter = ',', decimalComma = false, columns, expectedRows } = options
   const delim = delimiter.charCodeAt(0)
   const decimal = decimalComma ? 44 : 46
   const width = columns.length
@@ -42,40 +49,40 @@ export function scanNumericColumns(text: string, options: ScanNumericColumnsOpti
     slotOf[column] = slot
   })
 
-  const n = text.length
-  const sink = createColumnSink(width, countLines(text, start) + 1)
+  const n = bytes.length
+  const sink = createColumnSink(width, expectedRows ?? estimateRows(bytes, start))
   const { rowValues, rowKinds } = sink
   let line = -1
   let pos = start
 
   while (pos < n) {
     line++
-    let c = text.charCodeAt(pos)
+    let c = bytes[pos]
     if (c === NEWLINE) {
       pos++
       continue
     }
     if (c === RETURN) {
       pos++
-      if (pos < n && text.charCodeAt(pos) === NEWLINE) pos++
+      if (pos < n && bytes[pos] === NEWLINE) pos++
       continue
     }
-    rowKinds.fill(0)
     let column = 0
+    let numbers = 0
     for (;;) {
       const slot = column <= maxColumn ? slotOf[column] : -1
       if (slot >= 0) {
         const fieldStart = pos
         // Inline decimal parser: sign, digits, decimal mark, digits, exponent; spaces around are allowed.
         let p = pos
-        while (p < n && text.charCodeAt(p) === SPACE) p++
+        while (p < n && bytes[p] === SPACE) p++
         let negative = false
-        c = p < n ? text.charCodeAt(p) : NEWLINE
+        c = p < n ? bytes[p] : NEWLINE
         if (c === 45) {
           negative = true
-          c = ++p < n ? text.charCodeAt(p) : NEWLINE
+          c = ++p < n ? bytes[p] : NEWLINE
         } else if (c === 43) {
-          c = ++p < n ? text.charCodeAt(p) : NEWLINE
+          c = ++p < n ? bytes[p] : NEWLINE
         }
         let mantissa = 0
         let exponent = 0
@@ -85,94 +92,113 @@ export function scanNumericColumns(text: string, options: ScanNumericColumnsOpti
           if (mantissa < MANTISSA_LIMIT) mantissa = mantissa * 10 + (c - 48)
           else exact = false
           digits++
-          c = ++p < n ? text.charCodeAt(p) : NEWLINE
+          c = ++p < n ? bytes[p] : NEWLINE
         }
         if (c === decimal) {
-          c = ++p < n ? text.charCodeAt(p) : NEWLINE
+          c = ++p < n ? bytes[p] : NEWLINE
           while (c >= 48 && c <= 57) {
             if (mantissa < MANTISSA_LIMIT) {
               mantissa = mantissa * 10 + (c - 48)
               exponent--
             } else if (c !== 48) exact = false
             digits++
-            c = ++p < n ? text.charCodeAt(p) : NEWLINE
+            c = ++p < n ? bytes[p] : NEWLINE
           }
         }
         if (digits > 0 && (c === 101 || c === 69)) {
-          c = ++p < n ? text.charCodeAt(p) : NEWLINE
+          c = ++p < n ? bytes[p] : NEWLINE
           let exponentNegative = false
           if (c === 45) {
             exponentNegative = true
-            c = ++p < n ? text.charCodeAt(p) : NEWLINE
+            c = ++p < n ? bytes[p] : NEWLINE
           } else if (c === 43) {
-            c = ++p < n ? text.charCodeAt(p) : NEWLINE
+            c = ++p < n ? bytes[p] : NEWLINE
           }
           let written = 0
           let exponentDigits = 0
           while (c >= 48 && c <= 57) {
             if (written < 100000) written = written * 10 + (c - 48)
             exponentDigits++
-            c = ++p < n ? text.charCodeAt(p) : NEWLINE
+            c = ++p < n ? bytes[p] : NEWLINE
           }
           if (exponentDigits === 0) digits = 0
           exponent += exponentNegative ? -written : written
         }
-        while (c === SPACE) c = ++p < n ? text.charCodeAt(p) : NEWLINE
+        while (c === SPACE) c = ++p < n ? bytes[p] : NEWLINE
         if (digits > 0 && exact && exponent >= -22 && exponent <= 22 && (c === delim || c === NEWLINE || c === RETURN)) {
           const magnitude = exponent >= 0 ? mantissa * POW10[exponent] : mantissa / POW10[-exponent]
           rowValues[slot] = negative ? -magnitude : magnitude
-          rowKinds[slot] = CellKind.Number
+          rowKinds[slot] = KIND_NUMBER
+          numbers++
           pos = p
         } else {
           // Unusual cell (long mantissa, huge exponent, words, NaN): find its end and classify it slowly.
           pos = fieldStart
           while (pos < n) {
-            c = text.charCodeAt(pos)
+            c = bytes[pos]
             if (c === delim || c === NEWLINE || c === RETURN) break
             if (c === QUOTE) return sink.finish(true)
             pos++
           }
-          const cell = classifyCell(text.slice(fieldStart, pos), decimalComma)
+          const cell = classifyCell(cellText(bytes, fieldStart, pos), decimalComma)
           rowValues[slot] = cell.value
           rowKinds[slot] = cell.kind
         }
       } else {
         while (pos < n) {
-          c = text.charCodeAt(pos)
+          c = bytes[pos]
           if (c === delim || c === NEWLINE || c === RETURN) break
           if (c === QUOTE) return sink.finish(true)
           pos++
         }
       }
       if (pos >= n) break
-      c = text.charCodeAt(pos++)
+      c = bytes[pos++]
       if (c === delim) {
         column++
         continue
       }
-      if (c === RETURN && pos < n && text.charCodeAt(pos) === NEWLINE) pos++
+      if (c === RETURN && pos < n && bytes[pos] === NEWLINE) pos++
       break
     }
 
-    sink.commitRow(line)
+    // Requested columns beyond the last field of a short row hold nothing.
+    if (column < maxColumn) for (let k = 0; k < width; k++) if (columns[k] > column) rowKinds[k] = 0
+    if (numbers === width) sink.commitNumbers(line)
+    else sink.commitRow(line)
   }
   return sink.finish()
 }
 
-function countLines(text: string, start: number): number {
-  let count = 0
-  let index = text.indexOf('\n', start)
-  while (index !== -1) {
-    count++
-    index = text.indexOf('\n', index + 1)
-  }
-  if (count === 0) {
-    // Old files end lines with a bare carriage return.
-    index = text.indexOf('\r', start)
-    while (index !== -1) {
-      count++
-      index = text.indexOf('\r', index + 1)
+/**
+ * Rows to expect, from line lengths sampled at the start, middle and end of the body (the shortest average
+ * wins, so the guess is rarely short); the sink grows if it is.
+ */
+function estimateRows(bytes: Uint8Array, start: number): number {
+  const body = bytes.length - start
+  let bytesPerLine = Infinity
+  for (const fraction of [0, 0.5, 0.9]) {
+    let position = start + Math.floor(body * fraction)
+    if (fraction > 0) position = bytes.indexOf(NEWLINE, position) + 1
+    if (position <= 0) continue
+    const first = position
+    let lines = 0
+    while (lines < 64 && position < bytes.length) {
+      const next = bytes.indexOf(NEWLINE, position)
+      if (next < 0) break
+      lines++
+      position = next + 1
     }
+    if (lines > 0) bytesPerLine = Math.min(bytesPerLine, (position - first) / lines)
   }
-  return count
+  if (!Number.isFinite(bytesPerLine)) return 1024
+  return Math.ceil((body / bytesPerLine) * 1.02) + 16
+}
+
+/** A cell's text for classification: numbers and the words that matter are ASCII, so bytes map to chars. */
+function cellText(bytes: Uint8Array, from: number, to: number): string {
+  if (to - from > 64) return 'text'
+  let text = ''
+  for (let i = from; i < to; i++) text += String.fromCharCode(bytes[i])
+  return text
 }

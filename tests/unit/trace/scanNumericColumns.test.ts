@@ -1,7 +1,9 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { parseQuotedColumns } from '../../../shared/trace/parseQuotedColumns'
-import { scanNumericColumns } from '../../../shared/trace/scanNumericColumns'
+import { scanNumericColumns as scanBytes, type ScanNumericColumnsOptions } from '../../../shared/trace/scanNumericColumns'
+
+const scanNumericColumns = (text: string, options: ScanNumericColumnsOptions) => scanBytes(new TextEncoder().encode(text), options)
 
 describe('scanNumericColumns', () => {
   it('when numbers are printed in any decimal form then each reads as the same double as Number()', () => {
