@@ -6,6 +6,7 @@ import { parseQuotedColumns } from './parseQuotedColumns'
 import { readHeaderTiming } from './readHeaderTiming'
 import { scanNumericColumns, type ScannedColumns } from './scanNumericColumns'
 import { sniffTraceLayout, type TraceLayout } from './sniffTraceLayout'
+import { transcodeUtf16 } from './transcodeUtf16'
 import type { ChannelRole, ReadTraceOptions, Trace, TraceChannel } from './types'
 
 /** Fewer samples than this cannot hold a sweep worth analysing. */
@@ -23,9 +24,16 @@ const ROLES: readonly ChannelRole[] = ['transmission', 'ramp', 'reflection', 'un
  * read straight into Float64Arrays; the time axis is checked and repaired; channel roles are guessed with
  * evidence and can be overridden. Bad input throws `EngineError`; oddities become warnings.
  */
-export function readTrace(bytes: Uint8Array, options: ReadTraceOptions = {}): Trace {
+export function readTrace(input: Uint8Array, options: ReadTraceOptions = {}): Trace {
   const { sampleIntervalSeconds, maxBytes = DEFAULT_MAX_BYTES, roles = {} } = options
   assertOptions(sampleIntervalSeconds, maxBytes, roles)
+  if (!(input instanceof Uint8Array)) {
+    throw new EngineError('invalid_input', 'The trace must be given as bytes (a Uint8Array).')
+  }
+  if (input.length > maxBytes) {
+    throw new EngineError('file_too_large', `The file is ${(input.length / 2 ** 20).toFixed(1)} MiB, more than the limit of ${(maxBytes / 2 ** 20).toFixed(1)} MiB.`)
+  }
+  const bytes = transcodeUtf16(input)
 
   // Only the first lines are decoded to text; the body is read straight from the bytes.
   const head = decodeTraceText(bytes, { maxBytes, headLines: HEAD_LINES })

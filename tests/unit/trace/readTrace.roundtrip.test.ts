@@ -191,3 +191,24 @@ describe('readTrace role overrides', () => {
     expect(() => readTrace(utf8(text), { roles: { CH9: 'ramp' } })).toThrow(/channels are 0 "ramp"/)
   })
 })
+
+describe('readTrace text encodings', () => {
+  const source = makeSweptTrace()
+  const text = formatTraceCsv(source, { layout: 'preamble-header', timeUnit: 'µs' })
+
+  it('when the file starts with a UTF-8 byte-order mark then it reads the same', () => {
+    const bytes = utf8(text)
+    const withMark = new Uint8Array(bytes.length + 3)
+    withMark.set([0xef, 0xbb, 0xbf])
+    withMark.set(bytes, 3)
+    expectSameSamples(readTrace(withMark), source)
+    expect(readTrace(withMark).metadata).toHaveProperty('Sample interval')
+  })
+
+  it('when the file is UTF-16 with a byte-order mark then it is re-encoded and reads the same', () => {
+    const units = new Uint16Array(text.length + 1)
+    units[0] = 0xfeff
+    for (let i = 0; i < text.length; i++) units[i + 1] = text.charCodeAt(i)
+    expectSameSamples(readTrace(new Uint8Array(units.buffer)), source)
+  })
+})
