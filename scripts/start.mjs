@@ -2,6 +2,7 @@
 // npm dependencies → Debian's PostgreSQL → a project-local cluster on 127.0.0.1 → schema and demo
 // data → client build → the server. Ctrl-C stops the app and the database cleanly.
 import { spawn, spawnSync } from 'node:child_process'
+import { readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { LocalPostgres, SetupError, assertPortFree, ensureNodeModules, ensurePostgres, projectRoot, say } from './lib/services.mjs'
 
@@ -9,6 +10,12 @@ const appPort = Number(process.env.PORT ?? 3000)
 const dbPort = Number(process.env.CAVITRACE_DB_PORT ?? 54329)
 const dataDir = process.env.CAVITRACE_DATA_DIR ?? join(projectRoot, '.data', 'dev')
 const tsx = join(projectRoot, 'node_modules', '.bin', 'tsx')
+
+/** The demo people seeded in development, and their one password (shared/auth/demoAccounts.json). */
+function demoSignIn() {
+  const demo = JSON.parse(readFileSync(join(projectRoot, 'shared', 'auth', 'demoAccounts.json'), 'utf8'))
+  return { password: demo.password, emails: demo.people.map((person) => `${person.email} (${person.role})`) }
+}
 
 function runStep(label, command, args, env) {
   say(label)
@@ -42,6 +49,12 @@ async function main() {
       const match = /CAVITRACE_LISTENING (\S+)/.exec(text)
       if (match) {
         say(`Cavitrace is running at ${match[1]}/`)
+        if (env.NODE_ENV === 'development') {
+          const demo = demoSignIn()
+          say(`demo sign-in: password "${demo.password}" for any of`)
+          for (const email of demo.emails) say(`  ${email}`)
+          say(`mail the app sends is caught locally: Admin → Outbox (${match[1]}/admin/outbox)`)
+        }
         say('Ctrl-C stops the app and its database.')
       }
       process.stdout.write(text.replace(/CAVITRACE_LISTENING \S+\n?/, ''))

@@ -1,5 +1,6 @@
 import { existsSync, statSync } from 'node:fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { demoPassword, demoPeople } from '../../shared/auth/demoAccounts'
 import { launchBrowser, type TestBrowser } from '../support/browser'
 import { startTestServer, type TestServer } from '../support/testServer'
 
@@ -9,11 +10,18 @@ describe('the app shell in a real browser', () => {
   const fontRequests: string[] = []
 
   beforeAll(async () => {
-    server = await startTestServer()
+    server = await startTestServer({}, { seedDemo: true })
     browser = await launchBrowser()
     browser.page.on('request', (req) => {
       if (/\.(woff2?|ttf)(\?|$)/.test(req.url())) fontRequests.push(req.url())
     })
+    // Every area needs a signed-in person now; the viewer sees the overview.
+    const viewer = demoPeople.find((person) => person.role === 'viewer')!
+    await browser.page.goto(`${server.url}/sign-in`)
+    await browser.page.getByTestId('sign-in-email').fill(viewer.email)
+    await browser.page.locator('#sign-in-password').fill(demoPassword)
+    await browser.page.getByTestId('sign-in-submit').click()
+    await browser.page.getByTestId('user-menu').waitFor()
   })
   afterAll(async () => {
     await browser?.close()
