@@ -31,6 +31,8 @@ export interface FormatTraceCsvOptions {
   lineEnding?: '\n' | '\r\n' | '\r'
   /** Significant digits of every number. @default 12 */
   significantDigits?: number
+  /** 'shortest' (1.5e-7 or 0.0015), 'exponent' (1.50000E-7) or 'engineering' (-12.8799994E-3). @default 'shortest' */
+  numberStyle?: 'shortest' | 'exponent' | 'engineering'
   /** Unit of the printed time column. @default 's' */
   timeUnit?: 's' | 'ms' | 'us' | 'µs' | 'ns'
   /** Unit of printed voltages (channels whose unit is 'V' or unset). @default 'V' */
@@ -52,6 +54,7 @@ export function formatTraceCsv(input: TraceCsvInput, options: FormatTraceCsvOpti
     delimiter = decimalComma ? ';' : ',',
     lineEnding = '\n',
     significantDigits = 12,
+    numberStyle = 'shortest',
     timeUnit = 's',
     valueUnit = 'V',
   } = options
@@ -65,7 +68,7 @@ export function formatTraceCsv(input: TraceCsvInput, options: FormatTraceCsvOpti
   const timeFactor = TIME_FACTORS[timeUnit]
   const number = (value: number): string => {
     if (!Number.isFinite(value)) return ''
-    const printed = String(Number(value.toPrecision(significantDigits)))
+    const printed = printNumber(value, significantDigits, numberStyle)
     return decimalComma ? printed.replace('.', ',') : printed
   }
   const timeAt = (i: number): number => (input.time ? input.time[i] : start + i * dt)
@@ -141,6 +144,19 @@ export function formatTraceCsv(input: TraceCsvInput, options: FormatTraceCsvOpti
       throw new EngineError('invalid_option', `Unknown layout "${String(layout)}".`)
   }
   return lines.join(lineEnding) + lineEnding
+}
+
+function printNumber(value: number, digits: number, style: FormatTraceCsvOptions['numberStyle']): string {
+  if (style === 'exponent') return value.toExponential(digits - 1).toUpperCase()
+  if (style === 'engineering') {
+    if (value === 0) return '0.0'
+    const exponent = Math.floor(Math.log10(Math.abs(value)) / 3) * 3
+    const mantissa = value / 10 ** exponent
+    const whole = Math.floor(Math.log10(Math.abs(mantissa))) + 1
+    const printed = mantissa.toFixed(Math.max(0, digits - whole))
+    return exponent === 0 ? printed : `${printed}E${exponent}`
+  }
+  return String(Number(value.toPrecision(digits)))
 }
 
 function assertInput(input: TraceCsvInput): void {

@@ -50,7 +50,7 @@ interface TokenisedLine {
 }
 
 const DELIMITERS = [',', ';', '\t']
-const TIME_NAME = /^(?:time|t|x|sec|secs|seconds|horizontal|zeit|temps|tiempo)\b|\btime\b/i
+const TIME_NAME = /^(?:time|t|x|sec|secs|second|seconds|horizontal|zeit|temps|tiempo)\b|\btime\b/i
 const INDEX_NAME = /^(?:index|idx|sample|samples|sample no\.?|sample number|point|points|pt|n|no\.?|nr\.?|#|i)$/i
 const CHANNEL_NAME_KEY = /^(?:source|channel|name|label|trace|signal)$/i
 const VALUE_UNIT_KEY = /^(?:vertical|y|amplitude|voltage|value)?\s*units?$/i
@@ -334,7 +334,7 @@ function stripUnit(header: string): { name: string; unit: string | undefined } {
 function isTimeName(header: string | undefined): boolean {
   if (header === undefined) return false
   const { name, unit } = stripUnit(header)
-  return TIME_NAME.test(name) || (name === '' && parseUnit(unit).kind === 'time')
+  return TIME_NAME.test(name) || parseUnit(name).kind === 'time' || (name === '' && parseUnit(unit).kind === 'time')
 }
 
 function addPreambleEntry(metadata: Record<string, string>, cells: string[]): void {

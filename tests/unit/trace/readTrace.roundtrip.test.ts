@@ -39,7 +39,11 @@ const formats: { label: string; options: FormatTraceCsvOptions }[] = [
   { label: 'semicolon, decimal comma, CRLF', options: { delimiter: ';', decimalComma: true, lineEnding: '\r\n' } },
   { label: 'tab, decimal comma, LF', options: { delimiter: '\t', decimalComma: true } },
   { label: 'tab, CR only', options: { delimiter: '\t', lineEnding: '\r' } },
-  { label: 'comma, 6 digits (exponents)', options: { significantDigits: 12, timeUnit: 'ms' } },
+  { label: 'comma, time in ms, exponents', options: { timeUnit: 'ms', numberStyle: 'exponent', significantDigits: 14 } },
+  {
+    label: 'semicolon, engineering exponents, decimal comma',
+    options: { delimiter: ';', decimalComma: true, numberStyle: 'engineering', significantDigits: 14 },
+  },
 ]
 
 describe('readTrace round trip through formatTraceCsv', () => {
@@ -59,6 +63,13 @@ describe('readTrace round trip through formatTraceCsv', () => {
       })
     }
   }
+
+  it('when the export holds one channel beside its time column then it reads back', () => {
+    const one = makeSweptTrace({ channels: ['transmission'] })
+    const trace = readTrace(utf8(formatTraceCsv(one, { layout: 'plain-columns', numberStyle: 'engineering' })))
+    expectSameSamples(trace, one)
+    expectRoles(trace, ['transmission'])
+  })
 
   it('when the preamble carries metadata then the key/value pairs are kept', () => {
     const trace = readTrace(utf8(formatTraceCsv(input, { layout: 'preamble-header' })))
@@ -210,5 +221,34 @@ describe('readTrace text encodings', () => {
     units[0] = 0xfeff
     for (let i = 0; i < text.length; i++) units[i + 1] = text.charCodeAt(i)
     expectSameSamples(readTrace(new Uint8Array(units.buffer)), source)
+  })
+})
+
+describe('readTrace header forms', () => {
+  const rows = Array.from({ length: 40 }, (_, i) => [i * 0.5, Math.sin(i / 4), i % 10 === 0 ? 3 : 0.1])
+
+  it('when names and units sit on two header rows then both are used', () => {
+    const text = ['Time,Ramp,Cavity', 'ms,mV,V', ...rows.map((r) => r.join(','))].join('\n')
+    const trace = readTrace(utf8(text))
+    expect(trace.sampleInterval).toBeCloseTo(0.5e-3, 12)
+    expect(trace.channels.map((c) => [c.name, c.unit])).toEqual([['Ramp', 'V'], ['Cavity', 'V']])
+    expect(trace.channels[0].values[2]).toBeCloseTo(Math.sin(0.5) / 1000, 12)
+  })
+
+  it('when the time header is only a unit ("s" or "[ms]") then it is still the time axis', () => {
+    for (const [header, scale] of [['s', 1], ['[ms]', 1e-3]] as const) {
+      const text = [`${header};CH1 [V];CH2 [V]`, ...rows.map((r) => r.join(';'))].join('\n')
+      const trace = readTrace(utf8(text))
+      expect(trace.channels).toHaveLength(2)
+      expect(trace.sampleInterval).toBeCloseTo(0.5 * scale, 12)
+    }
+  })
+
+  it('when the first column counts samples and a header line gives the rate then time comes from the rate', () => {
+    const text = ['# Sampling rate: 2 kS/s', '# Start time = -5 ms', 'Sample,CH1', ...rows.map((r, i) => `${i + 1},${r[1]}`)].join('\n')
+    const trace = readTrace(utf8(text))
+    expect(trace.sampleInterval).toBeCloseTo(5e-4, 15)
+    expect(trace.startTime).toBeCloseTo(-5e-3, 15)
+    expect(trace.channels.map((c) => c.name)).toEqual(['CH1'])
   })
 })
