@@ -252,3 +252,27 @@ describe('readTrace header forms', () => {
     expect(trace.channels.map((c) => c.name)).toEqual(['CH1'])
   })
 })
+
+describe('readTrace without a time column', () => {
+  const source = makeSweptTrace({ startTime: 2e-4 })
+  const [ramp, transmission] = source.channels
+
+  it('when only channels are printed and the preamble states interval and start then the axis comes from them', () => {
+    const body = Array.from(ramp.values, (r, i) => `${r};${transmission.values[i]}`)
+    const text = ['Instrument;invented recorder', 'Sample interval;2 us', 'Start time;0,2 ms', '', 'CH1 (V);CH2 (V)', ...body].join('\r\n')
+    const trace = readTrace(utf8(text))
+    expect(trace.sampleInterval).toBeCloseTo(2e-6, 15)
+    expect(trace.startTime).toBeCloseTo(2e-4, 15)
+    expect(trace.channels.map((c) => c.role)).toEqual(['ramp', 'transmission'])
+    expect(trace.channels[1].values[1234]).toBe(transmission.values[1234])
+  })
+
+  it('when a headerless index column is followed by channels then the index is not taken for a channel', () => {
+    const body = Array.from(ramp.values, (r, i) => `${i},${r},${transmission.values[i]}`)
+    const text = ['dt,2e-6', ...body].join('\n')
+    const trace = readTrace(utf8(text))
+    expect(trace.channels).toHaveLength(2)
+    expect(trace.sampleInterval).toBe(2e-6)
+    expect(trace.startTime).toBe(0)
+  })
+})
