@@ -22,12 +22,17 @@ declare module 'vue-router' {
 const areaAction = (name: string): Action => appAreas.find((area) => area.name === name)?.action ?? 'lab.read'
 
 const pendingAreas: RouteRecordRaw[] = appAreas
-  .filter((area) => area.name !== 'overview' && area.name !== 'admin')
+  .filter((area) => !['overview', 'admin', 'cavities', 'tuning'].includes(area.name))
   .map((area) => ({ path: area.path, name: area.name, component: () => import('./pages/AreaPendingPage.vue'), props: { areaName: area.name }, meta: { action: area.action, title: area.label } }))
 
 export const routes: RouteRecordRaw[] = [
   { path: '/', name: 'overview', component: () => import('./pages/OverviewPage.vue'), meta: { action: areaAction('overview') } },
   ...pendingAreas,
+  { path: '/cavities', name: 'cavities', component: () => import('./pages/cavities/CavitiesPage.vue'), meta: { action: areaAction('cavities'), title: 'Cavities' } },
+  { path: '/cavities/:id', name: 'cavity', component: () => import('./pages/cavities/CavityPage.vue'), props: true, meta: { action: 'lab.read', title: 'Cavity' } },
+  { path: '/tuning', name: 'tuning', component: () => import('./pages/tuning/TuningPage.vue'), meta: { action: areaAction('tuning'), title: 'Tuning' } },
+  { path: '/tuning/:cavityId', name: 'tuning-cavity', component: () => import('./pages/tuning/TuningPage.vue'), props: true, meta: { action: areaAction('tuning'), title: 'Tuning' } },
+  { path: '/analyses/:id', name: 'analysis', component: () => import('./pages/analyses/AnalysisPage.vue'), props: true, meta: { action: 'lab.read', title: 'Analysis' } },
   { path: '/admin', name: 'admin', component: () => import('./pages/admin/AdminPeoplePage.vue'), meta: { action: 'users.manage', title: 'People' } },
   { path: '/admin/tokens', name: 'admin-tokens', component: () => import('./pages/admin/AdminTokensPage.vue'), meta: { action: 'tokens.manageAll', title: 'API tokens' } },
   { path: '/admin/audit', name: 'admin-audit', component: () => import('./pages/admin/AdminAuditPage.vue'), meta: { action: 'audit.read', title: 'Audit log' } },
