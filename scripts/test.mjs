@@ -9,7 +9,11 @@ import { LocalPostgres, SetupError, ensureChromium, ensureNodeModules, ensurePos
 
 const bin = (name) => join(projectRoot, 'node_modules', '.bin', name)
 const outputDir = join(projectRoot, 'test-output')
-const only = process.argv.slice(2) // e.g. `npm test -- unit api` runs only those suites
+// `npm test -- unit api` runs only those suites; test file paths narrow them further
+// (`npm test -- api tests/api/health.test.ts`).
+const suiteNames = ['typecheck', 'lint', 'unit', 'api', 'e2e']
+const only = process.argv.slice(2).filter((arg) => suiteNames.includes(arg))
+const fileFilters = process.argv.slice(2).filter((arg) => !suiteNames.includes(arg))
 
 function freePort(preferred) {
   return new Promise((resolve) => {
@@ -31,7 +35,7 @@ function run(command, args, env) {
 function vitestSuite(project, env) {
   const report = join(outputDir, `vitest-${project}.json`)
   rmSync(report, { force: true })
-  const ok = run(bin('vitest'), ['run', '--project', project, '--passWithNoTests', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], env)
+  const ok = run(bin('vitest'), ['run', '--project', project, ...fileFilters, '--passWithNoTests', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], env)
   if (!existsSync(report)) return { passed: 0, failed: 1, note: 'the runner crashed before reporting' }
   const counts = JSON.parse(readFileSync(report, 'utf8'))
   const failedSuites = (counts.testResults ?? []).filter((file) => file.status === 'failed' && (file.assertionResults ?? []).length === 0).length

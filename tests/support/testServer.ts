@@ -19,7 +19,8 @@ export interface TestServer extends RunningServer {
 export async function startTestServer(env: Record<string, string> = {}, options: { seedDemo?: boolean } = {}): Promise<TestServer> {
   const database = await createTestDatabase()
   const config = loadConfig({ NODE_ENV: 'test', PORT: '0', LOG_LEVEL: 'silent', DATABASE_URL: database.url, CLIENT_DIR: process.env.CLIENT_DIR ?? 'dist/client', ...env })
-  const running = await startServer(config, { logger: pino({ level: 'silent' }) })
+  // CAVITRACE_TEST_LOG=debug shows the server's log while debugging a test.
+  const running = await startServer(config, { logger: pino({ level: process.env.CAVITRACE_TEST_LOG ?? 'silent' }) })
   if (options.seedDemo) await seedDemo(running.db)
   return {
     ...running,

@@ -1,0 +1,14 @@
+/** `GET /api/analyses/:id` → `{ status, result, error, … }` with `result` in the command line's shape. */
+import { Router } from 'express'
+import { requirePermission } from '../auth/requirePermission'
+import type { AppContext } from '../app'
+import { parseId } from '../cavities/cavityRoutes'
+import { getAnalysis } from './analysisService'
+
+export function analysisRoutes(context: AppContext): Router {
+  const router = Router()
+  router.get('/analyses/:id', requirePermission('lab.read'), async (req, res) => {
+    res.json(await getAnalysis(context.db, parseId(req.params.id, 'analysis')))
+  })
+  return router
+}

@@ -1,0 +1,39 @@
+/**
+ * Worker-thread entry (piscina): decompress a stored export, read it and analyse it. Runs off the
+ * request thread. Bad input comes back as `{ ok: false, error }` (it will fail the same way on a
+ * retry); anything else throws, so the job is retried.
+ */
+import { gunzipSync } from 'node:zlib'
+import type { CavityGeometry } from '../../shared/cavity'
+import { analyzeTrace } from '../../shared/analysis/analyzeTrace'
+import type { AnalysisResult, AnalyzeOptions } from '../../shared/analysis/types'
+import { isEngineError } from '../../shared/errors'
+import { readTrace } from '../../shared/trace/readTrace'
+
+export interface AnalysisTask {
+  /** The export as stored: gzip-compressed bytes. */
+  gzipped: Uint8Array
+  geometry: CavityGeometry
+  options: AnalyzeOptions
+  maxBytes: number
+}
+
+export type AnalysisOutcome = { ok: true; result: AnalysisResult; milliseconds: number } | { ok: false; error: { code: string; message: string } }
+
+export default function runAnalysisTask(task: AnalysisTask): AnalysisOutcome {
+  const started = performance.now()
+  let bytes: Uint8Array
+  try {
+    bytes = gunzipSync(task.gzipped, { maxOutputLength: task.maxBytes + 1 })
+  } catch {
+    return { ok: false, error: { code: 'file_too_large', message: `The stored file is larger than the ${Math.round(task.maxBytes / 1048576)} MB limit once decompressed.` } }
+  }
+  try {
+    const trace = readTrace(bytes, { maxBytes: task.maxBytes })
+    const result = analyzeTrace(trace, task.geometry, task.options)
+    return { ok: true, result, milliseconds: performance.now() - started }
+  } catch (error) {
+    if (isEngineError(error)) return { ok: false, error: { code: error.code, message: error.message } }
+    throw error
+  }
+}

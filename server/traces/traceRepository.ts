@@ -1,0 +1,80 @@
+/** Data access for uploaded traces. The raw bytes are only loaded when asked for. */
+import type { Db } from '../db/knex'
+
+export interface TraceRecord {
+  id: string
+  cavityId: string
+  sha256: string
+  fileName: string
+  sizeBytes: number
+  note: string
+  uploadedBy: number | null
+  uploadedAt: string
+}
+
+interface TraceRow {
+  id: string
+  cavity_id: string
+  sha256: string
+  file_name: string
+  size_bytes: string | number
+  note: string
+  uploaded_by: number | null
+  uploaded_at: Date
+  content_gzip?: Buffer
+}
+
+const columns = ['id', 'cavity_id', 'sha256', 'file_name', 'size_bytes', 'note', 'uploaded_by', 'uploaded_at']
+
+function toTrace(row: TraceRow): TraceRecord {
+  return {
+    id: row.id,
+    cavityId: row.cavity_id,
+    sha256: row.sha256,
+    fileName: row.file_name,
+    sizeBytes: Number(row.size_bytes),
+    note: row.note,
+    uploadedBy: row.uploaded_by,
+    uploadedAt: row.uploaded_at.toISOString(),
+  }
+}
+
+export async function findTraceBySha(db: Db, cavityId: string, sha256: string): Promise<TraceRecord | null> {
+  const row = (await db('traces').where({ cavity_id: cavityId, sha256 }).first(columns)) as TraceRow | undefined
+  return row ? toTrace(row) : null
+}
+
+export async function findTrace(db: Db, id: string): Promise<TraceRecord | null> {
+  const row = (await db('traces').where({ id }).first(columns)) as TraceRow | undefined
+  return row ? toTrace(row) : null
+}
+
+/** Insert a trace; when the same file is already stored for the cavity, return the existing one. */
+export async function insertTrace(
+  db: Db,
+  trace: { cavityId: string; sha256: string; fileName: string; sizeBytes: number; contentGzip: Buffer; note: string; uploadedBy: number | null },
+): Promise<{ trace: TraceRecord; created: boolean }> {
+  const rows = await db<TraceRow>('traces')
+    .insert({
+      cavity_id: trace.cavityId,
+      sha256: trace.sha256,
+      file_name: trace.fileName,
+      size_bytes: trace.sizeBytes,
+      content_gzip: trace.contentGzip,
+      note: trace.note,
+      uploaded_by: trace.uploadedBy,
+    })
+    .onConflict(['cavity_id', 'sha256'])
+    .ignore()
+    .returning(columns)
+  if (rows.length > 0) return { trace: toTrace(rows[0] as TraceRow), created: true }
+  const existing = await findTraceBySha(db, trace.cavityId, trace.sha256)
+  if (!existing) throw new Error('trace vanished between insert and read')
+  return { trace: existing, created: false }
+}
+
+/** The stored gzip bytes of a trace. */
+export async function readTraceContent(db: Db, id: string): Promise<Buffer | null> {
+  const row = await db<TraceRow>('traces').select('content_gzip').where({ id }).first()
+  return row?.content_gzip ?? null
+}

@@ -1,0 +1,75 @@
+/**
+ * Upload use case: keep the raw file (gzip-compressed, with its SHA-256; the same file twice for the
+ * same cavity links to the stored one) and queue its analysis. Nothing is parsed here: a file that is
+ * not a trace becomes a failed analysis with a clear error, and the file stays.
+ */
+import { createHash } from 'node:crypto'
+import { promisify } from 'node:util'
+import { gzip } from 'node:zlib'
+import type { AnalysisOptions } from '../../shared/api/cavitySchemas'
+import { finishAnalysis, insertAnalysis, type AnalysisRecord } from '../analyses/analysisRepository'
+import { latestAnalysisOfTrace } from '../analyses/analysisService'
+import { geometryOf, getCavity } from '../cavities/cavityService'
+import type { Db } from '../db/knex'
+import type { AnalysisQueue } from '../jobs/analysisQueue'
+import type { EventHub } from '../jobs/eventHub'
+import { HttpError } from '../http/errors'
+import { findTrace, insertTrace, type TraceRecord } from './traceRepository'
+
+const gzipAsync = promisify(gzip)
+
+export interface UploadContext {
+  db: Db
+  queue: Pick<AnalysisQueue, 'enqueue'>
+  events: EventHub
+}
+
+export interface UploadedFile {
+  fileName: string
+  bytes: Buffer
+}
+
+export interface UploadOutcome {
+  trace: TraceRecord
+  analysis: AnalysisRecord
+  /** False when the same file was already stored for this cavity. */
+  created: boolean
+}
+
+/** Create an analysis of a stored trace with the cavity's current geometry, and queue it. */
+export async function queueAnalysis(context: UploadContext, trace: TraceRecord, options: AnalysisOptions, userId: number | null): Promise<AnalysisRecord> {
+  const cavity = await getCavity(context.db, trace.cavityId)
+  const analysis = await insertAnalysis(context.db, { traceId: trace.id, cavityId: cavity.id, options, geometry: geometryOf(cavity), requestedBy: userId })
+  try {
+    await context.queue.enqueue(analysis.id)
+  } catch (error) {
+    // The trace is stored either way; record why this analysis did not run, so it can be re-run.
+    const message = error instanceof HttpError ? error.message : 'The analysis could not be queued.'
+    await finishAnalysis(context.db, analysis.id, { error: { code: 'queue_unavailable', message } })
+    throw error
+  }
+  await context.events.publish({ type: 'analysis', cavityId: cavity.id, analysisId: analysis.id, traceId: trace.id, status: 'queued' })
+  return analysis
+}
+
+export async function uploadTraces(context: UploadContext, cavityId: string, files: UploadedFile[], note: string, userId: number | null): Promise<UploadOutcome[]> {
+  if (files.length === 0) throw new HttpError(400, 'no_file', 'No file was uploaded: send the export in the multipart field "file".')
+  const cavity = await getCavity(context.db, cavityId)
+  if (cavity.archived) throw new HttpError(409, 'cavity_archived', `Cavity "${cavity.name}" is archived; un-archive it before uploading.`)
+  const outcomes: UploadOutcome[] = []
+  for (const file of files) {
+    const sha256 = createHash('sha256').update(file.bytes).digest('hex')
+    const contentGzip = await gzipAsync(file.bytes, { level: 6 })
+    const { trace, created } = await insertTrace(context.db, { cavityId, sha256, fileName: file.fileName, sizeBytes: file.bytes.length, contentGzip, note, uploadedBy: userId })
+    const existing = created ? null : await latestAnalysisOfTrace(context.db, trace.id)
+    const analysis = existing ?? (await queueAnalysis(context, trace, {}, userId))
+    outcomes.push({ trace, analysis, created })
+  }
+  return outcomes
+}
+
+export async function getTrace(db: Db, id: string): Promise<TraceRecord> {
+  const trace = await findTrace(db, id)
+  if (!trace) throw new HttpError(404, 'trace_not_found', `No trace with id ${id}.`)
+  return trace
+}
