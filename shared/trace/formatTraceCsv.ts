@@ -12,7 +12,7 @@ export type TraceCsvLayout =
 /** Anything trace-like: a `Trace`, or plain arrays from a generator. Values in volts, times in seconds. */
 export interface TraceCsvInput {
   sampleInterval: number
-  /** @default 0 */
+  /** Seconds. @default time[0] when `time` is given, else 0 */
   startTime?: number
   /** Printed time of each sample, seconds; @default startTime + i × sampleInterval */
   time?: ArrayLike<number>
@@ -63,7 +63,7 @@ export function formatTraceCsv(input: TraceCsvInput, options: FormatTraceCsvOpti
     throw new EngineError('invalid_option', 'Decimal commas need a semicolon or tab delimiter.')
   }
   const n = input.channels[0].values.length
-  const start = input.startTime ?? 0
+  const start = input.startTime ?? (input.time && input.time.length > 0 ? input.time[0] : 0)
   const dt = input.sampleInterval
   const timeFactor = TIME_FACTORS[timeUnit]
   const number = (value: number): string => {
