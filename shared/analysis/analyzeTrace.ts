@@ -1,13 +1,19 @@
-import { computeCavityModel, type CavityGeometry } from '../cavity'
+import { computeCavityModel, transverseOffsetFsr, type CavityGeometry } from '../cavity'
 import { EngineError, type EngineWarning } from '../errors'
 import type { Trace } from '../trace/types'
 import { selectSweep } from '../sweep/selectSweep'
 import { estimateNoise } from '../peaks/estimateNoise'
 import { estimateBaseline } from '../peaks/estimateBaseline'
 import { findResonances } from '../peaks/findResonances'
+import { smoothSignal } from '../peaks/smoothSignal'
+import { fitResonanceShape } from '../peaks/fitResonanceShape'
+import { findSweepInData } from '../sweep/findSweepInData'
+import { calibrateWithOrders } from '../calibration/calibrateWithOrders'
+import { orderFamilies } from '../orders/orderFamilies'
+import { fitOrderPowers, type PredictedLine } from '../orders/fitOrderPowers'
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
-import { findFundamentals } from '../orders/findFundamentals'
+import { findFundamentals, type FundamentalComb } from '../orders/findFundamentals'
 import { assignOrders, type OrderLabel } from '../orders/assignOrders'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
@@ -16,11 +22,17 @@ import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 
 /** Highest transverse order the assignment considers. */
 const MAX_ORDER = 10
+/** Orders always measured at their predicted places, detected or not (the ones that tell the mode-match). */
+const ALWAYS_MEASURED_ORDERS = 4
+/** An order is reported when its summed height stands this many standard errors above zero. */
+const REPORT_SIGNIFICANCE = 4
 
 /**
  * Reads a swept-cavity trace: selects the sweep, finds and measures every resonance, calibrates time to optical
- * frequency on the TEM00 comb, labels transverse orders by the Gouy phase (Siegman, "Lasers" (1986), ch. 19) and
- * reports the TEM00 fraction, the share per order, linewidth and finesse with warnings.
+ * frequency on the TEM00 comb and the transverse modes, labels transverse orders by the Gouy phase (Siegman,
+ * "Lasers" (1986), ch. 19) and reports the TEM00 fraction, the share per order, linewidth and finesse with warnings.
+ * Two passes: the tall TEM00 resonances first give the linewidth; it then sets the smoothing for finding the weak
+ * resonances, and every order is measured at its predicted place with that linewidth (see fitOrderPowers).
  */
 export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: AnalyzeOptions = {}): AnalysisResult {
   const { transmissionChannel, rampChannel, sweepPart = 'auto', gouyOverrideRad, peakModel = 'auto' } = options
@@ -33,104 +45,121 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const dt = trace.sampleInterval
   const timeAt = (index: number) => trace.startTime + index * dt
 
-  // 1. Sweep part.
+  // 1. Sweep part: from the ramp, or from the resonances themselves when there is none.
   const range = sweepPart === 'auto' ? undefined : indexRange(trace, sweepPart)
-  const sweep = selectSweep(channels.ramp?.values ?? null, trace.sampleCount, { range })
+  let sweep = selectSweep(channels.ramp?.values ?? null, trace.sampleCount, { range })
+  if (!channels.ramp && !range) {
+    const whole = prepareSignal(values)
+    const tall = tallResonances(whole.signal, whole.sigmaV)
+    sweep = findSweepInData(tall, trace.sampleCount)
+  }
   const part = values.subarray(sweep.startIndex, sweep.endIndex)
 
   // 2. Baseline and noise.
-  const noise = estimateNoise(part)
-  const sigmaV = Math.max(noise.sigmaV, 1e-9 * spanOf(part))
-  const { baselineV, darkLevelV } = estimateBaseline(part, sigmaV)
-  const signal = new Float64Array(part.length)
-  for (let i = 0; i < part.length; i++) signal[i] = Number.isFinite(part[i]) ? part[i] - baselineV[i] : 0
+  const { signal, sigmaV, darkLevelV, quantumV } = prepareSignal(part)
 
-  // 3. Resonances, measured by area and by fit.
-  const candidates = findResonances(signal, sigmaV)
+  // 3. Pass 1: the tall resonances give the TEM00 linewidth in samples.
+  const tall = tallResonances(signal, sigmaV)
+  if (tall.length === 0) {
+    throw new EngineError('no_resonances', 'No resonance stands out of the noise in the selected sweep; check the channel and the sweep range')
+  }
+  const tallComb = findFundamentals(tall.map((m) => ({ center: m.centerIndex, height: m.heightV })))
+  const roughWidth = median(tallComb.members.map((k) => tall[k].fwhmSamples))
+
+  // 4. Pass 2: smooth at half the linewidth (a matched filter's scale) and find every resonance standing out.
+  const halfWidth = Math.max(0, Math.floor(roughWidth / 4))
+  const smooth = halfWidth > 0 ? smoothSignal(signal, { halfWidth }) : signal
+  const candidates = findResonances(smooth, sigmaV / Math.sqrt(2 * halfWidth + 1), { minSeparationSamples: 0.7 * roughWidth })
+  for (const c of candidates) c.maxV = rawMax(signal, c.peakIndex, halfWidth)
   if (candidates.length === 0) {
     throw new EngineError('no_resonances', 'No resonance stands out of the noise in the selected sweep; check the channel and the sweep range')
   }
-  let measured = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
+  const measured = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
   const tOf = (m: MeasuredResonance) => timeAt(sweep.startIndex + m.centerIndex)
 
-  // 4. TEM00 comb and calibration.
-  const comb = findFundamentals(measured.map((m) => ({ center: m.centerIndex, height: m.heightV })))
+  // 5. TEM00 comb and a first calibration on it.
+  const families0 = orderFamilies(predictedGouy, MAX_ORDER, 0.005)
+  const sidebandOffsetFsr = modulationMHz ? (modulationMHz * 1e6) / model.fsrHz : null
+  const comb = chooseComb(measured, tOf, predictedGouy, families0.leaders, sidebandOffsetFsr, roughWidth)
   let calibration: SweepCalibration | null = null
-  if (comb.members.length >= 2) {
-    calibration = calibrateSweep(comb.members.map((k) => tOf(measured[k])), comb.fsrIndex)
-  }
-  const finesseEstimate = calibration ? finesseOf(comb.members, measured, calibration, dt, tOf).value : null
-  let usedModel: 'lorentzian' | 'airy' = peakModel === 'airy' ? 'airy' : 'lorentzian'
-  // Low finesse: the Lorentzian misreads the Airy wings (Born & Wolf, "Principles of Optics", §7.6).
-  if (peakModel === 'auto' && calibration && finesseEstimate !== null && finesseEstimate < 25) {
-    usedModel = 'airy'
-    measured = measureResonances(signal, candidates, sigmaV, { model: 'airy', periodSamples: calibration.fsrSeconds / dt })
-  }
-  const finesse = calibration ? finesseOf(comb.members, measured, calibration, dt, tOf) : null
-  const samplesPerLinewidth = median(comb.members.map((k) => measured[k].fwhmSamples))
-  const linewidthFsr = finesse?.value ? 1 / finesse.value : 0.01
+  if (comb.members.length >= 2) calibration = calibrateSweep(comb.members.map((k) => tOf(measured[k])), comb.fsrIndex)
 
-  // 5. Orders.
-  const isFundamental = new Set(comb.members)
-  const positions = measured.map((m) => (calibration ? frequencyAt(calibration, tOf(m)) : NaN))
+  // 6. Linewidth: each TEM00 fitted with its sidebands, widths taken through the local sweep rate.
+  let shapes = calibration ? fitFundamentals(signal, measured, comb.members, calibration, sidebandOffsetFsr, sigmaV, dt, tOf, null) : []
+  let finesse = calibration ? finesseFrom(shapes) : null
+  if (calibration && finesse && peakModel !== 'lorentzian' && (peakModel === 'airy' || finesse.value < 25)) {
+    // Low finesse: the Lorentzian misreads the Airy wings (Born & Wolf, "Principles of Optics", §7.6).
+    shapes = fitFundamentals(signal, measured, comb.members, calibration, sidebandOffsetFsr, sigmaV, dt, tOf, calibration.fsrSeconds / dt)
+    finesse = finesseFrom(shapes)
+  }
+  const usedModel: 'lorentzian' | 'airy' = peakModel === 'airy' || (finesse !== null && finesse.value < 25 && peakModel !== 'lorentzian') ? 'airy' : 'lorentzian'
+  const samplesPerLinewidth = shapes.length ? median(shapes.map((s) => s.fwhmSamples)) : median(comb.members.map((k) => measured[k].fwhmSamples))
+  const linewidthFsr = finesse?.value ? 1 / finesse.value : 0.01
+  for (const s of shapes) {
+    measured[s.member] = { ...measured[s.member], centerIndex: s.centerIndex, heightV: s.heightV, fwhmSamples: s.fwhmSamples, fwhmErrorSamples: s.fwhmErrorSamples, fitted: true }
+  }
+
+  // 7. Orders: families of degenerate orders, assignment, then the calibration refined with every carrier.
   const toleranceFsr = Math.min(0.06, Math.max(0.02, 4 * linewidthFsr))
+  const families = orderFamilies(predictedGouy, MAX_ORDER, Math.max(2 * linewidthFsr, 0.005))
+  const isFundamental = new Set(comb.members)
   let labels: OrderLabel[]
   let direction: 'up' | 'down' | 'unknown' = 'unknown'
-  let measuredGouy: number | null = null
+  let gouy = predictedGouy
   let orderResidual: number | null = null
   if (calibration) {
-    const sidebandOffsetFsr = modulationMHz ? frac((modulationMHz * 1e6) / model.fsrHz) : null
-    const assignment = assignOrders(
-      measured.map((m, i) => ({ positionFsr: positions[i], weight: m.heightV, fundamental: isFundamental.has(i) })),
-      predictedGouy,
-      { maxOrder: MAX_ORDER, toleranceFsr, sidebandOffsetFsr },
-    )
+    const sidebandForAssignment = sidebandOffsetFsr === null ? null : frac(sidebandOffsetFsr)
+    const assign = (cal: SweepCalibration, psi: number, tolerance: number, maxShift: number) =>
+      assignOrders(
+        measured.map((m, i) => ({ positionFsr: frequencyAt(cal, tOf(m)), weight: m.heightV, fundamental: isFundamental.has(i) })),
+        psi,
+        { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandForAssignment, allowedOrders: families.leaders, maxGouyShiftRad: maxShift },
+      )
+    const maxShift = 0.03 * predictedGouy
+    let assignment = assign(calibration, predictedGouy, toleranceFsr, maxShift)
+    for (let round = 0; round < 2; round++) {
+      const points = measured
+        .map((m, i) => ({ m, l: assignment.labels[i] }))
+        .filter(({ l }) => l.kind === 'carrier' && l.order !== null)
+        .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: Math.min(m.heightV / sigmaV, 200) ** 2 }))
+      const refined = calibrateWithOrders(points, calibration, assignment.direction, predictedGouy, { maxGouyShiftRad: maxShift })
+      calibration = refined.calibration
+      gouy = refined.gouyRad
+      assignment = assign(calibration, gouy, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * predictedGouy)
+    }
     labels = assignment.labels
     direction = assignment.direction
-    measuredGouy = assignment.measuredGouyRad
     orderResidual = assignment.residualRmsFsr
   } else {
     labels = measured.map((_, i) =>
       isFundamental.has(i) ? { kind: 'carrier', order: 0, residualFsr: 0 } : { kind: 'unassigned', order: null, residualFsr: NaN },
     )
   }
+  const positions = measured.map((m) => (calibration ? frequencyAt(calibration, tOf(m)) : NaN))
 
-  // 6. Shares over whole FSR periods, so every order is counted as often as TEM00.
+  // 8. Power per order: every order measured at its predicted place over whole FSR periods.
   const fastStructure = comb.members.some((k) => measured[k].lobeCount >= 3)
-  const allFitted = comb.members.length > 0 && comb.members.every((k) => measured[k].fitted)
-  const useHeight = samplesPerLinewidth >= 5 && !fastStructure && allFitted
-  const power = measured.map((m) => (useHeight ? m.heightV : areaInFsr(m, calibration, dt, tOf)))
-  const powerError = measured.map((m) => (useHeight ? m.heightErrorV : areaInFsr({ ...m, areaVSamples: m.areaErrorVSamples }, calibration, dt, tOf)))
-  const inPeriods = measured.map((_, i) => {
-    if (!calibration) return true
-    const first = Math.min(...comb.fsrIndex)
-    const last = Math.max(...comb.fsrIndex)
-    if (last === first) return true
-    return positions[i] >= first - toleranceFsr && positions[i] < last - toleranceFsr
-  })
-  let total = 0
-  const byOrder = new Map<number, number>()
-  for (let i = 0; i < measured.length; i++) {
-    const l = labels[i]
-    if (!inPeriods[i] || l.kind !== 'carrier' || l.order === null) continue
-    total += power[i]
-    byOrder.set(l.order, (byOrder.get(l.order) ?? 0) + power[i])
+  let shares = calibration && finesse
+    ? measureOrderShares({
+        signal, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
+        sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
+        orders: measuredOrders(families.leaders, labels),
+        firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
+        timeAt: (i) => timeAt(sweep.startIndex + i),
+        preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
+      })
+    : fundamentalOnlyShares(measured, comb.members)
+  if (calibration && shares.reducedChiSquare !== null && shares.reducedChiSquare > MAX_MODEL_CHI_SQUARE) {
+    // The lines do not follow one shared shape (split, ringing or distorted resonances, a poorly followed sweep):
+    // fall back to the integrated power of each resonance found, wherever it sits.
+    const fallback = peakAreaShares(measured, labels, positions, calibration, comb.fsrIndex, toleranceFsr, dt, tOf)
+    if (fallback) shares = { ...fallback, reducedChiSquare: shares.reducedChiSquare }
   }
-  if (!(total > 0)) throw new EngineError('no_resonances', 'No carrier resonance could be measured in the selected sweep')
-  const orders: Record<string, number> = {}
-  for (const order of [...byOrder.keys()].sort((a, b) => a - b)) orders[String(order)] = byOrder.get(order)! / total
-  const fundamentalFraction = orders['0'] ?? 0
-  let variance = 0
-  for (let i = 0; i < measured.length; i++) {
-    const l = labels[i]
-    if (!inPeriods[i] || l.kind !== 'carrier' || !Number.isFinite(powerError[i])) continue
-    const d = l.order === 0 ? (1 - fundamentalFraction) / total : -fundamentalFraction / total
-    variance += (d * powerError[i]) ** 2
-  }
+  const { orders, fundamentalFraction } = shares
+  const useHeight = shares.measure === 'height'
 
   const peaks: AnalysisPeak[] = measured.map((m, i) => {
     const l = labels[i]
-    const counted = inPeriods[i] && l.kind === 'carrier'
     return {
       t: tOf(m),
       order: l.kind === 'unassigned' ? null : l.order,
@@ -139,7 +168,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       heightError: Number.isFinite(m.heightErrorV) ? m.heightErrorV : null,
       fwhmSeconds: m.fwhmSamples * dt,
       area: m.areaVSamples * dt,
-      share: counted ? power[i] / total : 0,
+      share: l.kind === 'carrier' && l.order !== null ? shares.shareOfPeak(l.order, positions[i]) : 0,
       positionFsr: Number.isFinite(positions[i]) ? orientedFraction(positions[i], direction) : null,
       fitted: m.fitted,
     }
@@ -151,12 +180,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       part,
       signal,
       sigmaV,
-      quantumV: noise.quantumV,
+      quantumV,
       measured,
       labels,
       fundamentals: comb.members,
       samplesPerLinewidth,
-      gouyRad: measuredGouy ?? predictedGouy,
+      gouyRad: gouy,
       linewidthFsr,
       toleranceFsr,
       model,
@@ -165,11 +194,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   ]
   const misalignmentShare = orders['1'] ?? 0
   const mismatchShare = orders['2'] ?? 0
-  const chi = measured.filter((m) => m.fitted).map((m) => m.reducedChiSquare)
+  const chi = measured.filter((m) => m.fitted && Number.isFinite(m.reducedChiSquare)).map((m) => m.reducedChiSquare)
   const fsrHz = model.fsrHz
+  const combTimes = comb.members.map((k) => tOf(measured[k]))
   return {
     fundamentalFraction,
-    fundamentalFractionError: Number.isFinite(variance) ? Math.sqrt(variance) : null,
+    fundamentalFractionError: shares.fundamentalFractionError,
     fsr: {
       seconds: calibration?.fsrSeconds ?? null,
       hz: fsrHz,
@@ -185,9 +215,9 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     reading: readingOfShares(fundamentalFraction, misalignmentShare, mismatchShare),
     measure: useHeight ? 'height' : 'area',
     measureReason: useHeight
-      ? `Fitted heights (${usedModel}): the resonances are well sampled (${fmt(samplesPerLinewidth)} samples per linewidth) and smooth, and all share the cavity linewidth.`
-      : `Integrated power (area): ${fastStructure ? 'fast structure inside the resonances' : samplesPerLinewidth < 5 ? `only ${fmt(samplesPerLinewidth)} samples per linewidth` : 'the fits did not all converge'} makes heights unreliable.`,
-    gouy: { predictedOneWayRad: predictedGouy, measuredOneWayRad: measuredGouy },
+      ? `Fitted heights (${usedModel} lines at the predicted places, one shared linewidth): the resonances are well sampled (${fmt(samplesPerLinewidth)} samples per linewidth) and smooth.`
+      : `Integrated power (area): ${fastStructure ? 'fast structure inside the resonances' : samplesPerLinewidth < 6 ? `only ${fmt(samplesPerLinewidth)} samples per linewidth` : 'the lines do not follow the fitted shape'} makes heights unreliable.`,
+    gouy: { predictedOneWayRad: predictedGouy, measuredOneWayRad: calibration ? gouy : null },
     peaks,
     sweep: {
       direction,
@@ -200,12 +230,14 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       polynomialOrder: calibration?.polynomialOrder ?? 0,
       residualRmsFsr: calibration?.residualRmsFsr ?? null,
       fundamentalCount: comb.members.length,
+      fundamentalTimes: combTimes,
     },
     fitQuality: {
       medianReducedChiSquare: chi.length ? median(chi) : null,
       fittedCount: chi.length,
       peakCount: measured.length,
       orderResidualRmsFsr: orderResidual,
+      lineModelReducedChiSquare: shares.reducedChiSquare,
     },
     samplesPerLinewidth: Number.isFinite(samplesPerLinewidth) ? samplesPerLinewidth : null,
     noise: { sigmaV, darkLevelV },
@@ -214,23 +246,342 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   }
 }
 
-function finesseOf(
-  members: number[],
+/**
+ * The TEM00 comb that best explains the whole spectrum. The tallest repeating family is usually TEM00, but a strong
+ * order-1 resonance beside it, or a resonance past a sweep's turning point, can join the comb. Each candidate (the
+ * comb found with two height limits, and each without its end members) calibrates the sweep and the resonances
+ * are matched to the predicted orders (Siegman, "Lasers" (1986), ch. 19); the candidate whose predictions explain
+ * the most resonance height, less the height left unexplained, wins (more members on a tie).
+ */
+function chooseComb(
   measured: MeasuredResonance[],
+  tOf: (m: MeasuredResonance) => number,
+  predictedGouy: number,
+  allowedOrders: number[],
+  sidebandOffsetFsr: number | null,
+  roughWidth: number,
+): FundamentalComb {
+  const positions = measured.map((m) => ({ center: m.centerIndex, height: m.heightV }))
+  const found = [findFundamentals(positions), findFundamentals(positions, { tallFraction: 0.5 })]
+  const candidates: FundamentalComb[] = []
+  const add = (c: FundamentalComb) => {
+    if (c.members.length < 2) return
+    if (candidates.some((d) => d.members.join() === c.members.join())) return
+    candidates.push(c)
+  }
+  for (const c of found) {
+    add(c)
+    if (c.members.length >= 3) {
+      add({ members: c.members.slice(1), fsrIndex: c.fsrIndex.slice(1) })
+      add({ members: c.members.slice(0, -1), fsrIndex: c.fsrIndex.slice(0, -1) })
+    }
+    if (c.members.length >= 4) add({ members: c.members.slice(1, -1), fsrIndex: c.fsrIndex.slice(1, -1) })
+  }
+  if (candidates.length <= 1) return candidates[0] ?? found[0]
+  let best = candidates[0]
+  let bestScore = -Infinity
+  for (const c of candidates) {
+    const calibration = calibrateSweep(c.members.map((k) => tOf(measured[k])), c.fsrIndex)
+    const members = new Set(c.members)
+    const spacingSamples = (measured[c.members[c.members.length - 1]].centerIndex - measured[c.members[0]].centerIndex) / (c.fsrIndex[c.fsrIndex.length - 1] - c.fsrIndex[0])
+    const tolerance = Math.min(0.06, Math.max(0.02, (4 * roughWidth) / spacingSamples))
+    const assignment = assignOrders(
+      measured.map((m, i) => ({ positionFsr: frequencyAt(calibration, tOf(m)), weight: m.heightV, fundamental: members.has(i) })),
+      predictedGouy,
+      { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandOffsetFsr === null ? null : frac(sidebandOffsetFsr), allowedOrders, maxGouyShiftRad: 0.03 * predictedGouy },
+    )
+    let score = 0
+    let total = 0
+    assignment.labels.forEach((l, i) => {
+      score += l.kind === 'unassigned' ? -measured[i].heightV : measured[i].heightV
+      total += measured[i].heightV
+    })
+    const better = score > bestScore + 1e-3 * total || (Math.abs(score - bestScore) <= 1e-3 * total && c.members.length > best.members.length)
+    if (better) {
+      best = c
+      bestScore = Math.max(score, bestScore)
+    }
+  }
+  return best
+}
+
+/** Baseline-subtracted signal with its noise level. */
+function prepareSignal(part: Float64Array): { signal: Float64Array; sigmaV: number; darkLevelV: number; quantumV: number } {
+  const noise = estimateNoise(part)
+  const sigmaV = Math.max(noise.sigmaV, 1e-9 * spanOf(part))
+  const { baselineV, darkLevelV } = estimateBaseline(part, sigmaV)
+  const signal = new Float64Array(part.length)
+  for (let i = 0; i < part.length; i++) signal[i] = Number.isFinite(part[i]) ? part[i] - baselineV[i] : 0
+  return { signal, sigmaV, darkLevelV, quantumV: noise.quantumV }
+}
+
+/** A tall resonance measured from its half-maximum crossings. */
+interface TallResonance {
+  centerIndex: number
+  heightV: number
+  fwhmSamples: number
+}
+
+/**
+ * The tallest resonances (at least a fifth of the highest sample), each measured between its half-maximum crossings
+ * on the raw samples: enough for the TEM00 comb and its width, whatever the sampling (a slope shallower than the
+ * noise cannot stop a walk to half height, unlike a walk to the valleys).
+ */
+function tallResonances(signal: Float64Array, sigmaV: number): TallResonance[] {
+  let top = 0
+  for (let i = 0; i < signal.length; i++) if (signal[i] > top) top = signal[i]
+  const threshold = Math.max(Math.max(5, Math.sqrt(2 * Math.log(Math.max(signal.length, 2))) + 1), (0.2 * top) / sigmaV)
+  const found = findResonances(signal, sigmaV, { thresholdSigma: threshold })
+  return found.map((c) => {
+    const half = c.maxV / 2
+    let a = c.peakIndex
+    while (a > 0 && signal[a - 1] > half) a--
+    let b = c.peakIndex
+    while (b + 1 < signal.length && signal[b + 1] > half) b++
+    // Interpolated crossings on each side.
+    const left = a > 0 ? a - (signal[a] - half) / (signal[a] - signal[a - 1] || 1) : a
+    const right = b + 1 < signal.length ? b + (signal[b] - half) / (signal[b] - signal[b + 1] || 1) : b
+    return { centerIndex: (left + right) / 2, heightV: c.maxV, fwhmSamples: Math.max(0.5, right - left) }
+  })
+}
+
+function rawMax(signal: Float64Array, index: number, reach: number): number {
+  let top = -Infinity
+  for (let i = Math.max(0, index - reach); i <= Math.min(signal.length - 1, index + reach); i++) if (signal[i] > top) top = signal[i]
+  return top
+}
+
+interface FundamentalShape {
+  member: number
+  centerIndex: number
+  heightV: number
+  fwhmSamples: number
+  fwhmErrorSamples: number
+  sidebandRatio: number
+  /** Linewidth in FSR units through the local sweep rate. */
+  linewidthFsr: number
+}
+
+/** Fits every TEM00 resonance (with its modulation sidebands when given) for width and height. */
+function fitFundamentals(
+  signal: Float64Array,
+  measured: MeasuredResonance[],
+  members: number[],
   calibration: SweepCalibration,
+  sidebandOffsetFsr: number | null,
+  sigmaV: number,
   dt: number,
   tOf: (m: MeasuredResonance) => number,
-): { value: number; error: number | null } {
-  // Finesse = FSR / FWHM, each FWHM taken through the local sweep rate (common practice).
-  const values = members.map((k) => 1 / (measured[k].fwhmSamples * dt * Math.abs(sweepRateAt(calibration, tOf(measured[k])))))
+  periodSamples: number | null,
+): FundamentalShape[] {
+  const out: FundamentalShape[] = []
+  for (const k of members) {
+    const m = measured[k]
+    const rate = Math.abs(sweepRateAt(calibration, tOf(m))) * dt
+    if (!(rate > 0)) continue
+    // Sidebands inside the window are part of the fit; carry them only when they sit within reach of the line.
+    const d = sidebandOffsetFsr !== null ? sidebandOffsetFsr / rate : null
+    const useSidebands = d !== null && d < 6 * m.fwhmSamples + 4
+    const reach = 3 * m.fwhmSamples + (useSidebands ? d! : 0) + 2
+    let lo = Math.ceil(m.centerIndex - reach)
+    let hi = Math.floor(m.centerIndex + reach)
+    for (let j = 0; j < measured.length; j++) {
+      if (j === k) continue
+      const gap = measured[j].centerIndex - m.centerIndex
+      if (useSidebands && Math.abs(Math.abs(gap) - d!) < 1.5 * m.fwhmSamples + 1) continue
+      if (gap > 0) hi = Math.min(hi, Math.floor(m.centerIndex + gap / 2))
+      else lo = Math.max(lo, Math.ceil(m.centerIndex + gap / 2))
+    }
+    const shape = fitResonanceShape(
+      signal,
+      { centerIndex: m.centerIndex, heightV: m.heightV, fwhmSamples: m.fwhmSamples },
+      { window: [lo, hi], sidebandOffsetSamples: useSidebands ? d : null, periodSamples, sigmaV },
+    )
+    if (!shape) continue
+    out.push({
+      member: k,
+      centerIndex: shape.centerIndex,
+      heightV: shape.heightV,
+      fwhmSamples: shape.fwhmSamples,
+      fwhmErrorSamples: shape.fwhmErrorSamples,
+      sidebandRatio: shape.sidebandRatio,
+      linewidthFsr: shape.fwhmSamples * rate,
+    })
+  }
+  return out
+}
+
+/** Finesse = FSR / FWHM (common practice), the median over the TEM00 resonances. */
+function finesseFrom(shapes: FundamentalShape[]): { value: number; error: number | null } | null {
+  if (shapes.length === 0) return null
+  const values = shapes.map((s) => 1 / s.linewidthFsr)
   const value = median(values)
   const spread = values.length > 2 ? (1.4826 * median(values.map((v) => Math.abs(v - value)))) / Math.sqrt(values.length) : null
   return { value, error: spread }
 }
 
-function areaInFsr(m: MeasuredResonance, calibration: SweepCalibration | null, dt: number, tOf: (m: MeasuredResonance) => number): number {
-  const rate = calibration ? Math.abs(sweepRateAt(calibration, tOf(m))) : 1
-  return m.areaVSamples * dt * rate
+/** Orders measured at their predicted places: the low ones always, higher ones when a resonance was matched to them. */
+function measuredOrders(leaders: number[], labels: OrderLabel[]): number[] {
+  const seen = new Set(labels.filter((l) => l.kind === 'carrier' && l.order !== null).map((l) => l.order!))
+  return leaders.filter((order) => order <= ALWAYS_MEASURED_ORDERS || seen.has(order))
+}
+
+interface ShareInputs {
+  signal: Float64Array
+  sigmaV: number
+  calibration: SweepCalibration
+  direction: 'up' | 'down'
+  gouy: number
+  finesse: number
+  sidebands: { offsetFsr: number; ratio: number } | null
+  orders: number[]
+  firstIndex: number
+  lastIndex: number
+  timeAt: (index: number) => number
+  preferHeight: boolean
+}
+
+interface Shares {
+  orders: Record<string, number>
+  fundamentalFraction: number
+  fundamentalFractionError: number | null
+  measure: 'height' | 'area'
+  reducedChiSquare: number | null
+  shareOfPeak: (order: number, positionFsr: number) => number
+}
+
+/** χ² per degree of freedom above which the line model is not trusted for heights. */
+const MAX_LINE_CHI_SQUARE = 3
+/** … and above which it is not trusted at all (the resonances found are measured one by one instead). */
+const MAX_MODEL_CHI_SQUARE = 30
+
+/** Shares from the integrated power of each labelled resonance over whole FSR periods (areas per unit frequency). */
+function peakAreaShares(
+  measured: MeasuredResonance[],
+  labels: OrderLabel[],
+  positions: number[],
+  calibration: SweepCalibration,
+  fsrIndex: number[],
+  toleranceFsr: number,
+  dt: number,
+  tOf: (m: MeasuredResonance) => number,
+): Shares | null {
+  const first = Math.min(...fsrIndex)
+  const last = Math.max(...fsrIndex)
+  const counted = (i: number) => positions[i] >= first - toleranceFsr && positions[i] < last - toleranceFsr
+  const power = measured.map((m) => m.areaVSamples * dt * Math.abs(sweepRateAt(calibration, tOf(m))))
+  const byOrder = new Map<number, number>()
+  let total = 0
+  for (let i = 0; i < measured.length; i++) {
+    const l = labels[i]
+    if (!counted(i) || l.kind !== 'carrier' || l.order === null || !(power[i] > 0)) continue
+    total += power[i]
+    byOrder.set(l.order, (byOrder.get(l.order) ?? 0) + power[i])
+  }
+  if (!(total > 0)) return null
+  const orders: Record<string, number> = {}
+  for (const order of [...byOrder.keys()].sort((a, b) => a - b)) orders[String(order)] = byOrder.get(order)! / total
+  return {
+    orders,
+    fundamentalFraction: orders['0'] ?? 0,
+    fundamentalFractionError: null,
+    measure: 'area',
+    reducedChiSquare: null,
+    shareOfPeak: (order, positionFsr) => {
+      const i = positions.indexOf(positionFsr)
+      return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
+    },
+  }
+}
+
+function measureOrderShares(input: ShareInputs): Shares {
+  const { signal, calibration, direction, gouy, finesse, firstIndex, lastIndex } = input
+  const n = signal.length
+  const nu = new Float64Array(n)
+  const c = calibration.coefficients
+  for (let i = 0; i < n; i++) {
+    const u = (input.timeAt(i) - calibration.t0Seconds) / calibration.scaleSeconds
+    let v = 0
+    for (let k = c.length - 1; k >= 0; k--) v = v * u + c[k]
+    nu[i] = v
+  }
+  let lo = Infinity
+  let hi = -Infinity
+  for (let i = 0; i < n; i++) {
+    if (nu[i] < lo) lo = nu[i]
+    if (nu[i] > hi) hi = nu[i]
+  }
+  const sign = direction === 'up' ? 1 : -1
+  const lines: PredictedLine[] = []
+  const epsilon = 1e-6
+  for (let p = Math.floor(lo) - 1; p <= Math.ceil(hi) + 1; p++) {
+    for (const order of input.orders) {
+      const at = p + sign * transverseOffsetFsr(order, gouy)
+      if (at < lo - 0.5 / finesse || at > hi + 0.5 / finesse) continue
+      const counted = direction === 'up' ? at >= firstIndex - epsilon && at < lastIndex - epsilon : at > firstIndex + epsilon && at <= lastIndex + epsilon
+      lines.push({ nu: at, order, counted })
+    }
+  }
+  const fit = fitOrderPowers(signal, nu, lines, { finesse, sidebands: input.sidebands, sigmaV: input.sigmaV })
+  const useHeight = input.preferHeight && fit.reducedChiSquare <= MAX_LINE_CHI_SQUARE
+  const m = lines.length
+  const sums = new Map<number, { value: number; variance: number }>()
+  for (const order of input.orders) {
+    let value = 0
+    let variance = 0
+    for (let j = 0; j < m; j++) {
+      if (!lines[j].counted || lines[j].order !== order) continue
+      value += useHeight ? fit.lines[j].heightV : fit.lines[j].areaHeightV
+      for (let l = 0; l < m; l++) if (lines[l].counted && lines[l].order === order) variance += fit.covariance[j * m + l]
+    }
+    sums.set(order, { value, variance })
+  }
+  // Report an order when its power stands clearly out of the noise (always TEM00).
+  const reported = input.orders.filter((order) => {
+    const s = sums.get(order)!
+    return order === 0 ? s.value > 0 : s.value > REPORT_SIGNIFICANCE * Math.sqrt(Math.max(s.variance, 0)) && s.value > 0
+  })
+  let total = 0
+  for (const order of reported) total += sums.get(order)!.value
+  if (!(total > 0)) throw new EngineError('no_resonances', 'No carrier resonance could be measured in the selected sweep')
+  const orders: Record<string, number> = {}
+  for (const order of reported) orders[String(order)] = sums.get(order)!.value / total
+  const fundamentalFraction = orders['0'] ?? 0
+  // First-order error propagation of P0 / Σ P, orders taken as independent (common practice).
+  let variance = 0
+  for (const order of reported) {
+    const d = order === 0 ? (1 - fundamentalFraction) / total : -fundamentalFraction / total
+    variance += d * d * Math.max(sums.get(order)!.variance, 0)
+  }
+  const tolerance = Math.max(3 / finesse, 0.005)
+  return {
+    orders,
+    fundamentalFraction,
+    fundamentalFractionError: Number.isFinite(variance) ? Math.sqrt(variance) : null,
+    measure: useHeight ? 'height' : 'area',
+    reducedChiSquare: Number.isFinite(fit.reducedChiSquare) ? fit.reducedChiSquare : null,
+    shareOfPeak: (order, positionFsr) => {
+      if (!(String(order) in orders)) return 0
+      for (let j = 0; j < m; j++) {
+        if (lines[j].order !== order || !lines[j].counted || Math.abs(lines[j].nu - positionFsr) > tolerance) continue
+        return (useHeight ? fit.lines[j].heightV : fit.lines[j].areaHeightV) / total
+      }
+      return 0
+    },
+  }
+}
+
+/** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */
+function fundamentalOnlyShares(measured: MeasuredResonance[], members: number[]): Shares {
+  const total = members.reduce((s, k) => s + measured[k].heightV, 0)
+  return {
+    orders: { '0': 1 },
+    fundamentalFraction: 1,
+    fundamentalFractionError: null,
+    measure: 'height',
+    reducedChiSquare: null,
+    shareOfPeak: (order) => (order === 0 && total > 0 ? 1 / Math.max(1, members.length) : 0),
+  }
 }
 
 function orientedFraction(positionFsr: number, direction: 'up' | 'down' | 'unknown'): number {

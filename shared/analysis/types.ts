@@ -56,6 +56,8 @@ export const analysisResultSchema = z.object({
     polynomialOrder: z.number().int(),
     residualRmsFsr: z.number().nullable(),
     fundamentalCount: z.number().int(),
+    /** Centres of the TEM00 resonances that set the calibration, seconds on the file's time axis. */
+    fundamentalTimes: z.array(z.number()),
   }),
   fitQuality: z.object({
     /** Median reduced χ² of the fitted resonances (noise from the trace). */
@@ -64,6 +66,8 @@ export const analysisResultSchema = z.object({
     peakCount: z.number().int(),
     /** RMS distance of carriers from their predicted positions, FSR units. */
     orderResidualRmsFsr: z.number().nullable(),
+    /** Reduced χ² of the model of every line at its predicted place with the shared linewidth (null without one). */
+    lineModelReducedChiSquare: z.number().nullable(),
   }),
   samplesPerLinewidth: z.number().nullable(),
   noise: z.object({ sigmaV: z.number(), darkLevelV: z.number() }),

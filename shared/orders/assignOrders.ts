@@ -29,6 +29,10 @@ export interface AssignOrdersOptions {
   sidebandMaxOrder?: number
   /** Largest allowed refinement of ψ, rad (a 1 % length error moves ψ by far less). @default 0.08 */
   maxGouyShiftRad?: number
+  /**
+   * Orders that may be assigned (e.g. the lowest member of each degenerate family only). @default 0 … maxOrder
+   */
+  allowedOrders?: number[]
 }
 
 export interface OrderAssignment {
@@ -54,17 +58,19 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     sidebandOffsetFsr = null,
     sidebandMaxOrder = 2,
     maxGouyShiftRad = 0.08,
+    allowedOrders,
   } = options
+  const orders = allowedOrders ?? Array.from({ length: maxOrder + 1 }, (_, k) => k)
   let best: (OrderAssignment & { score: number }) | null = null
   for (const direction of ['up', 'down'] as const) {
     const positions = peaks.map((p) => (direction === 'up' ? frac(p.positionFsr) : frac(-p.positionFsr)))
     let gouy = predictedGouyRad
     let labels: OrderLabel[]
     for (const tolerance of [1.5 * toleranceFsr, 1.2 * toleranceFsr, toleranceFsr, toleranceFsr]) {
-      labels = matchAll(peaks, positions, gouy, { maxOrder, tolerance, sidebandOffsetFsr, sidebandMaxOrder })
+      labels = matchAll(peaks, positions, gouy, { maxOrder, orders, tolerance, sidebandOffsetFsr, sidebandMaxOrder })
       gouy = refineGouy(peaks, labels, gouy, predictedGouyRad, maxGouyShiftRad)
     }
-    labels = matchAll(peaks, positions, gouy, { maxOrder, tolerance: toleranceFsr, sidebandOffsetFsr, sidebandMaxOrder })
+    labels = matchAll(peaks, positions, gouy, { maxOrder, orders, tolerance: toleranceFsr, sidebandOffsetFsr, sidebandMaxOrder })
     let score = 0
     let ss = 0
     let ws = 0
@@ -86,6 +92,7 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
 
 interface MatchSettings {
   maxOrder: number
+  orders: number[]
   tolerance: number
   sidebandOffsetFsr: number | null
   sidebandMaxOrder: number
@@ -97,7 +104,8 @@ function matchAll(peaks: PlacedPeak[], positions: number[], gouy: number, s: Mat
     if (peak.fundamental) return { kind: 'carrier', order: 0, residualFsr: signedCircular(positions[i] - 0) }
     let bestCost = Infinity
     let label: OrderLabel = { kind: 'unassigned', order: null, residualFsr: NaN }
-    for (let order = 0; order <= s.maxOrder; order++) {
+    for (const order of s.orders) {
+      if (order > s.maxOrder) continue
       const r = signedCircular(positions[i] - offsets[order])
       // Lower orders win near-ties: they carry more power in practice (common practice).
       const cost = Math.abs(r) + order * 0.1 * s.tolerance
@@ -107,7 +115,8 @@ function matchAll(peaks: PlacedPeak[], positions: number[], gouy: number, s: Mat
       }
     }
     if (s.sidebandOffsetFsr !== null) {
-      for (let order = 0; order <= Math.min(s.sidebandMaxOrder, s.maxOrder); order++) {
+      for (const order of s.orders) {
+        if (order > Math.min(s.sidebandMaxOrder, s.maxOrder)) continue
         for (const sign of [1, -1]) {
           const r = signedCircular(positions[i] - offsets[order] - sign * s.sidebandOffsetFsr)
           // Sidebands of low orders are stronger than the high-order carriers they may sit beside.

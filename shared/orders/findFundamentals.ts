@@ -43,7 +43,11 @@ export function findFundamentals(peaks: PeakPosition[], options: FindFundamental
     // The spacing from the tallest to the k-th tall peak may span several FSRs; try whole fractions of it.
     for (let divisor = 1; divisor <= 4; divisor++) {
       const comb = walkComb(peaks, tallest, spacing / divisor, limit, spacingTolerance)
-      const score = comb.members.reduce((s, i) => s + peaks[i].height, 0)
+      const sum = comb.members.reduce((s, i) => s + peaks[i].height, 0)
+      // Every skipped FSR costs half an average member: a comb at half the true spacing, skipping every other
+      // step, must not tie with the true one.
+      const skipped = comb.fsrIndex[comb.fsrIndex.length - 1] - comb.fsrIndex[0] - (comb.members.length - 1)
+      const score = sum - (0.5 * skipped * sum) / comb.members.length
       if (comb.members.length > 1 && score > bestScore * (1 + 1e-9)) {
         best = comb
         bestScore = score

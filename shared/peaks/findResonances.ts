@@ -20,6 +20,8 @@ export interface FindResonancesOptions {
   mergeWidths?: number
   /** Longest walk, in samples, when measuring a prominence. @default max(200, n / 50) */
   maxWalk?: number
+  /** Maxima closer than this many samples are always one resonance (e.g. a linewidth, once known). @default 0 */
+  minSeparationSamples?: number
 }
 
 /**
@@ -35,6 +37,7 @@ export function findResonances(signalV: Float64Array, sigmaV: number, options: F
     thresholdSigma = Math.max(5, Math.sqrt(2 * Math.log(Math.max(n, 2))) + 1),
     mergeWidths = 2,
     maxWalk = Math.max(200, Math.floor(n / 50)),
+    minSeparationSamples = 0,
   } = options
   if (!(sigmaV > 0)) throw new EngineError('invalid_argument', `sigmaV must be greater than 0, got ${sigmaV}`)
   const minProminence = thresholdSigma * sigmaV
@@ -54,7 +57,7 @@ export function findResonances(signalV: Float64Array, sigmaV: number, options: F
     if (group) {
       const last = maxima[group[group.length - 1]]
       const width = Math.max(last.halfWidth, maxima[k].halfWidth)
-      if (maxima[k].index - last.index <= mergeWidths * width) {
+      if (maxima[k].index - last.index <= Math.max(mergeWidths * width, minSeparationSamples)) {
         group.push(k)
         continue
       }

@@ -32,6 +32,15 @@ describe('real trace: plano-concave, L = 150 mm = R/2', () => {
     // Half-confocal plano-concave cavity: ψ = π/4 (OPTICS-CHECKS 2(a), Siegman "Lasers" (1986) ch. 19).
     expect(result.gouy.predictedOneWayRad).toBeCloseTo(Math.PI / 4, 6)
   })
+  it('when ψ = π/4 then only orders 0–3 are reported: orders N and N + 4 coincide and are merged into the lower', () => {
+    // N·ψ/π mod 1 with ψ = π/4 repeats every 4 orders (Siegman, "Lasers" (1986), ch. 19): families 0/4/8, 1/5/9, 2/6/10, 3/7.
+    const reported = Object.keys(result.orders).map(Number)
+    expect(reported).toContain(0)
+    expect(reported.every((order) => order >= 0 && order <= 3)).toBe(true)
+    expect(result.peaks.every((p) => p.order === null || p.order <= 3)).toBe(true)
+    // A refined Gouy phase stays within its bound of the prediction (3 %), not wandering to explain noise.
+    expect(Math.abs(result.gouy.measuredOneWayRad! / (Math.PI / 4) - 1)).toBeLessThanOrEqual(0.03 + 1e-9)
+  })
   it('when the peaks are 4–7 samples wide and heights vary threefold then it warns of both', () => {
     expect(codes).toContain('undersampled')
     expect(codes).toContain('unsteady_fundamental')
