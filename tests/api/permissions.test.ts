@@ -28,8 +28,9 @@ describe('the permission table, walked over every protected route', () => {
 
     it(`when ${label} is called without credentials then it answers 401`, async () => {
       // Built as for an admin, so the target exists and only the missing credentials can explain a 401.
-      const { path, body } = await route.request({ server, caller: callers.get('admin')! })
-      const response = await request(server.url)[route.method](path).set('Origin', server.url).send(body as object)
+      const { path, body, attach } = await route.request({ server, caller: callers.get('admin')! })
+      const call = request(server.url)[route.method](path).set('Origin', server.url)
+      const response = attach ? await call.attach(attach.field, attach.content, attach.fileName) : await call.send(body as object)
       expect(response.status).toBe(401)
       expect(response.body.error.code).toBe('not_signed_in')
     })
@@ -38,8 +39,9 @@ describe('the permission table, walked over every protected route', () => {
       const allowed = route.action === 'signedIn' || can(role, route.action)
       it(`when ${label} is called by a ${role} then it answers ${allowed ? route.okStatus : 403}`, async () => {
         const caller = callers.get(role)!
-        const { path, body } = await route.request({ server, caller })
-        const response = await caller.agent[route.method](path).send(body as object)
+        const { path, body, attach } = await route.request({ server, caller })
+        const call = caller.agent[route.method](path)
+        const response = attach ? await call.attach(attach.field, attach.content, attach.fileName) : await call.send(body as object)
         expect(response.status, JSON.stringify(response.body)).toBe(allowed ? route.okStatus : 403)
         if (!allowed) expect(response.body.error.code).toBe('forbidden')
       })

@@ -6,6 +6,8 @@ import type { Action, Role } from '../../../shared/auth/permissions'
 import { newApiToken } from '../../../server/tokens/secretTokens'
 import { insertToken } from '../../../server/tokens/tokensData'
 import type { TestServer } from '../../support/testServer'
+import { tuningFixture } from '../../support/tuningFixtures'
+import { testCavityGeometry } from '../../support/traceFiles'
 import { createPerson, uniqueEmail } from './accountsTestKit'
 
 /** What a case may use to build its request. */
@@ -24,7 +26,7 @@ export interface ProtectedRouteCase {
   /** Status of a permitted call. */
   okStatus: number
   /** Build a fresh, valid request for the caller (called for every role, so make unique data). */
-  request(context: WalkContext): Promise<{ path: string; body?: unknown }>
+  request(context: WalkContext): Promise<{ path: string; body?: unknown; attach?: { field: string; content: Buffer; fileName: string } }>
 }
 
 const at = (path: string, body?: unknown) => async () => ({ path, body })
@@ -60,4 +62,24 @@ export const protectedRoutes: ProtectedRouteCase[] = [
   { method: 'get', route: '/api/tokens?all=1', action: 'tokens.manageAll', okStatus: 200, request: at('/api/tokens?all=1') },
   { method: 'get', route: '/api/audit', action: 'audit.read', okStatus: 200, request: at('/api/audit') },
   { method: 'get', route: '/api/outbox', action: 'outbox.read', okStatus: 200, request: at('/api/outbox') },
+  // The tuning loop (issue 6). GET /api/cavities/:id/events is a never-ending stream, so it is checked in tuningLoop.test.ts instead.
+  { method: 'get', route: '/api/cavities', action: 'lab.read', okStatus: 200, request: at('/api/cavities') },
+  { method: 'post', route: '/api/cavities', action: 'cavities.write', okStatus: 201, request: async () => ({ path: '/api/cavities', body: { name: `Walk cavity ${uniqueEmail('c')}`, ...testCavityGeometry } }) },
+  { method: 'get', route: '/api/cavities/:id', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}` }) },
+  { method: 'patch', route: '/api/cavities/:id', action: 'cavities.write', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}`, body: { location: 'Walked table' } }) },
+  { method: 'get', route: '/api/cavities/:id/history', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/history` }) },
+  {
+    method: 'post',
+    route: '/api/cavities/:id/traces',
+    action: 'traces.upload',
+    okStatus: 202,
+    async request({ server, caller }) {
+      const fixture = await tuningFixture(server)
+      return { path: `/api/cavities/${fixture.cavityId}/traces`, attach: { field: 'file', content: Buffer.from(`${fixture.csv}\n# ${caller.role}\n`), fileName: `${caller.role}.csv` } }
+    },
+  },
+  { method: 'get', route: '/api/traces/:id', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/traces/${(await tuningFixture(server)).traceId}` }) },
+  { method: 'get', route: '/api/traces/:id/file', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/traces/${(await tuningFixture(server)).traceId}/file` }) },
+  { method: 'post', route: '/api/traces/:id/analyses', action: 'analyses.run', okStatus: 202, request: async ({ server }) => ({ path: `/api/traces/${(await tuningFixture(server)).traceId}/analyses`, body: { peakModel: 'auto' } }) },
+  { method: 'get', route: '/api/analyses/:id', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/analyses/${(await tuningFixture(server)).analysisId}` }) },
 ]
