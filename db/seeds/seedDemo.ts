@@ -5,9 +5,10 @@
 import type { Knex } from 'knex'
 import { demoPassword, demoPeople } from '../../shared/auth/demoAccounts'
 import { hashPassword } from '../../server/auth/passwords'
+import { seedDemoLab } from './seedDemoLab'
 
 /** Bump when the demo data changes shape, so older demo databases are topped up. */
-export const demoVersion = 2
+export const demoVersion = 3
 
 /** One invented person per role, all with the documented demo password — never in production. */
 async function seedDemoPeople(trx: Knex): Promise<void> {
@@ -23,10 +24,11 @@ export async function seedDemo(knex: Knex): Promise<{ seeded: boolean }> {
   if (row && Number(row.value) >= demoVersion) return { seeded: false }
   await knex.transaction(async (trx) => {
     await trx('app_settings')
-      .insert({ key: 'lab_name', value: JSON.stringify('Halvorsen Lab for Precision Optics (demo)') })
+      .insert({ key: 'lab_name', value: JSON.stringify('North Wing Optics Lab (demo)') })
       .onConflict('key')
       .ignore()
     await seedDemoPeople(trx)
+    if (process.env.NODE_ENV !== 'production') await seedDemoLab(trx)
     await trx('app_settings')
       .insert({ key: 'demo_version', value: JSON.stringify(demoVersion), updated_at: trx.fn.now() })
       .onConflict('key')
