@@ -115,14 +115,16 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
         psi,
         { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandForAssignment, allowedOrders: families.leaders, maxGouyShiftRad: maxShift },
       )
-    const maxShift = 0.03 * predictedGouy
+    // ψ is refined only when three or more TEM00 resonances pin the sweep: with two, a bend of the sweep and a
+    // change of ψ move the transverse modes alike and cannot be told apart.
+    const maxShift = comb.members.length >= 3 ? 0.03 * predictedGouy : 0
     let assignment = assign(calibration, predictedGouy, toleranceFsr, maxShift)
     for (let round = 0; round < 2; round++) {
       const points = measured
         .map((m, i) => ({ m, l: assignment.labels[i] }))
         .filter(({ l }) => l.kind === 'carrier' && l.order !== null)
         .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: Math.min(m.heightV / sigmaV, 200) ** 2 }))
-      const refined = calibrateWithOrders(points, calibration, assignment.direction, predictedGouy, { maxGouyShiftRad: maxShift })
+      const refined = calibrateWithOrders(points, calibration, assignment.direction, predictedGouy, { maxGouyShiftRad: maxShift, outlierFsr: Math.max(1e-4, 0.5 * linewidthFsr) })
       calibration = refined.calibration
       gouy = refined.gouyRad
       assignment = assign(calibration, gouy, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * predictedGouy)
@@ -281,15 +283,30 @@ function chooseComb(
   let best = candidates[0]
   let bestScore = -Infinity
   for (const c of candidates) {
-    const calibration = calibrateSweep(c.members.map((k) => tOf(measured[k])), c.fsrIndex)
+    let calibration = calibrateSweep(c.members.map((k) => tOf(measured[k])), c.fsrIndex)
     const members = new Set(c.members)
     const spacingSamples = (measured[c.members[c.members.length - 1]].centerIndex - measured[c.members[0]].centerIndex) / (c.fsrIndex[c.fsrIndex.length - 1] - c.fsrIndex[0])
     const tolerance = Math.min(0.06, Math.max(0.02, (4 * roughWidth) / spacingSamples))
-    const assignment = assignOrders(
-      measured.map((m, i) => ({ positionFsr: frequencyAt(calibration, tOf(m)), weight: m.heightV, fundamental: members.has(i) })),
+    const assign = (cal: SweepCalibration, psi: number) =>
+      assignOrders(
+        measured.map((m, i) => ({ positionFsr: frequencyAt(cal, tOf(m)), weight: m.heightV, fundamental: members.has(i) })),
+        psi,
+        { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandOffsetFsr === null ? null : frac(sidebandOffsetFsr), allowedOrders, maxGouyShiftRad: 0.03 * predictedGouy },
+      )
+    let assignment = assign(calibration, predictedGouy)
+    // One round of the calibration refined with the matched carriers, so that a comb of two is judged fairly.
+    const refined = calibrateWithOrders(
+      measured
+        .map((m, i) => ({ m, l: assignment.labels[i] }))
+        .filter(({ l }) => l.kind === 'carrier' && l.order !== null)
+        .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: m.heightV ** 2 })),
+      calibration,
+      assignment.direction,
       predictedGouy,
-      { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandOffsetFsr === null ? null : frac(sidebandOffsetFsr), allowedOrders, maxGouyShiftRad: 0.03 * predictedGouy },
+      { outlierFsr: Math.max(1e-4, (0.5 * roughWidth) / spacingSamples), maxGouyShiftRad: c.members.length >= 3 ? 0.03 * predictedGouy : 0 },
     )
+    calibration = refined.calibration
+    assignment = assign(calibration, refined.gouyRad)
     let score = 0
     let total = 0
     assignment.labels.forEach((l, i) => {

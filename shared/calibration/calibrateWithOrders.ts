@@ -15,6 +15,8 @@ export interface CalibrateWithOrdersOptions {
   maxOrder?: number
   /** Largest allowed change of ψ from the prediction, rad. @default 0.03·ψ */
   maxGouyShiftRad?: number
+  /** Points farther than this (FSR units, and than 4 robust σ of the residuals) from the fit are dropped. @default 0.002 */
+  outlierFsr?: number
 }
 
 export interface OrderCalibration {
@@ -39,16 +41,16 @@ export function calibrateWithOrders(
   predictedGouyRad: number,
   options: CalibrateWithOrdersOptions = {},
 ): OrderCalibration {
-  const { maxOrder = 3, maxGouyShiftRad = 0.03 * predictedGouyRad } = options
+  const { maxOrder = 3, maxGouyShiftRad = 0.03 * predictedGouyRad, outlierFsr = 0.002 } = options
   if (!(predictedGouyRad > 0)) throw new EngineError('invalid_argument', `predictedGouyRad must be above 0, got ${predictedGouyRad}`)
   const sign = direction === 'up' ? 1 : -1
-  const usable = points.filter((p) => Number.isFinite(p.tSeconds) && p.weight > 0)
+  let usable = points.filter((p) => Number.isFinite(p.tSeconds) && p.weight > 0)
   const hasTransverse = usable.some((p) => p.order > 0)
   const degree = Math.max(1, Math.min(maxOrder, usable.length - (hasTransverse ? 3 : 2)))
   if (usable.length < 3) return { calibration: start, gouyRad: predictedGouyRad, gouyAtBound: false }
   // The whole number of FSRs below each point, from the starting map.
-  const periods = usable.map((p) => Math.round(frequencyAt(start, p.tSeconds) - (sign * p.order * predictedGouyRad) / Math.PI))
-  const u = usable.map((p) => (p.tSeconds - start.t0Seconds) / start.scaleSeconds)
+  let periods = usable.map((p) => Math.round(frequencyAt(start, p.tSeconds) - (sign * p.order * predictedGouyRad) / Math.PI))
+  let u = usable.map((p) => (p.tSeconds - start.t0Seconds) / start.scaleSeconds)
   const solve = (fixedGouy: number | null) => {
     const size = degree + 1 + (fixedGouy === null && hasTransverse ? 1 : 0)
     const a = Array.from({ length: size }, () => new Array<number>(size + 1).fill(0))
@@ -76,6 +78,31 @@ export function calibrateWithOrders(
     gouyAtBound = true
     solution = solve(gouyRad)
   }
+  // Misassigned resonances (beyond the last TEM00 the map is extrapolated) must not bend it: drop the points far
+  // off the fit, by a robust scale (1.4826·MAD; Hampel, J. Am. Stat. Assoc. 69, 383 (1974)), and solve again.
+  for (let round = 0; round < 2; round++) {
+    const residuals = usable.map((p, i) => {
+      let v = 0
+      for (let k = degree; k >= 0; k--) v = v * u[i] + solution[k]
+      return v - (sign * p.order * gouyRad) / Math.PI - periods[i]
+    })
+    const scale = 1.4826 * medianOf(residuals.map(Math.abs))
+    const limit = Math.max(4 * scale, outlierFsr)
+    const keep = residuals.map((r) => Math.abs(r) <= limit)
+    if (keep.every(Boolean) || keep.filter(Boolean).length < degree + 3) break
+    usable = usable.filter((_, i) => keep[i])
+    periods = periods.filter((_, i) => keep[i])
+    u = u.filter((_, i) => keep[i])
+    solution = solve(gouyAtBound ? gouyRad : null)
+    if (!gouyAtBound) {
+      gouyRad = hasTransverse && solution.length > degree + 1 ? solution[degree + 1] : predictedGouyRad
+      if (!Number.isFinite(gouyRad) || Math.abs(gouyRad - predictedGouyRad) > maxGouyShiftRad) {
+        gouyRad = Number.isFinite(gouyRad) ? predictedGouyRad + Math.sign(gouyRad - predictedGouyRad) * maxGouyShiftRad : predictedGouyRad
+        gouyAtBound = true
+        solution = solve(gouyRad)
+      }
+    }
+  }
   const coefficients = solution.slice(0, degree + 1)
   if (!coefficients.every(Number.isFinite)) return { calibration: start, gouyRad: predictedGouyRad, gouyAtBound: false }
   let ss = 0
@@ -92,6 +119,12 @@ export function calibrateWithOrders(
     gouyRad,
     gouyAtBound,
   }
+}
+
+function medianOf(values: number[]): number {
+  const s = values.slice().sort((a, b) => a - b)
+  const m = s.length >> 1
+  return s.length === 0 ? 0 : s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2
 }
 
 /** Gaussian elimination with partial pivoting on an augmented matrix (size × size+1). */

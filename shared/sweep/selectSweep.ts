@@ -62,6 +62,19 @@ export function selectSweep(rampV: Float64Array | null, sampleCount: number, opt
     if (end - start > best.length) best = { start, end, length: end - start }
   }
   const rising = smooth[Math.min(best.end - 1, sampleCount - 1)] > smooth[best.start]
+  // A short reverse leg at either end of the record turns by less than the hysteresis: trim the segment to its
+  // own extremes (the lowest point before it rises, the highest before it falls, for a rising ramp).
+  let lowIndex = best.start
+  let highIndex = best.start
+  for (let i = best.start; i < best.end; i++) {
+    const v = smooth[i]
+    if (!Number.isFinite(v)) continue
+    if (rising ? v < smooth[lowIndex] : v > smooth[lowIndex]) lowIndex = i
+    if (rising ? v > smooth[highIndex] : v < smooth[highIndex]) highIndex = i
+  }
+  if (highIndex < best.end - 1 - guardSamples) best.end = Math.max(best.start + 3, highIndex - guardSamples)
+  if (lowIndex > best.start + guardSamples && lowIndex + guardSamples < best.end - 3) best.start = lowIndex + guardSamples
+  best.length = best.end - best.start
   const segmentCount = bounds.length - 1
   return {
     startIndex: best.start,
