@@ -20,6 +20,8 @@ export interface DecodeTraceTextOptions {
 const DEFAULT_MAX_BYTES = 200 * 1024 * 1024
 /** How much of the start of the file is inspected for binary or markup content. */
 const SNIFF_BYTES = 8192
+/** The decoded head never exceeds this, however long its lines (a wide or broken file). */
+const HEAD_BYTES = 1024 * 1024
 
 /**
  * Turn uploaded bytes into text: refuse empty, oversized, binary and HTML/XML input, decode UTF-8 and fall
@@ -56,7 +58,7 @@ export function decodeTraceText(bytes: Uint8Array, options: DecodeTraceTextOptio
   return { text, encoding, complete: end === bytes.length, byteOffset }
 }
 
-/** Byte offset just after the first `lines` line ends (or the end of the input). */
+/** Byte offset just after the first `lines` line ends, the end of the input, or at most HEAD_BYTES in. */
 function endOfLines(bytes: Uint8Array, lines: number): number {
   if (!Number.isFinite(lines)) return bytes.length
   // Old files end lines with a bare carriage return: count those when there is no line feed at all.
@@ -64,11 +66,20 @@ function endOfLines(bytes: Uint8Array, lines: number): number {
   let position = 0
   for (let k = 0; k < lines; k++) {
     const found = bytes.indexOf(end, position)
-    if (found < 0) return bytes.length
+    if (found < 0) return bytes.length <= HEAD_BYTES || position === 0 ? utf8Boundary(bytes, HEAD_BYTES) : position
+    if (found >= HEAD_BYTES) return position > 0 ? position : utf8Boundary(bytes, HEAD_BYTES)
     position = found + 1
   }
   return position
 }
+
+/** Step back from `offset` to the start of a UTF-8 sequence, so a cut never splits a character. */
+function utf8Boundary(bytes: Uint8Array, offset: number): number {
+  let at = Math.min(offset, bytes.length)
+  while (at > 0 && at < bytes.length && (bytes[at] & 0xc0) === 0x80) at--
+  return at
+}
+
 function assertBytes(bytes: unknown): asserts bytes is Uint8Array {
   if (!(bytes instanceof Uint8Array)) {
     throw new EngineError('invalid_input', 'The trace must be given as bytes (a Uint8Array).')

@@ -50,7 +50,9 @@ export function scanNumericColumns(bytes: Uint8Array, options: ScanNumericColumn
   })
 
   const n = bytes.length
-  const sink = createColumnSink(width, expectedRows ?? estimateRows(bytes, start))
+  // Every row takes at least one byte per requested column, which bounds the first allocation for wide files.
+  const rowBound = Math.floor((n - start) / Math.max(1, width)) + 16
+  const sink = createColumnSink(width, Math.min(expectedRows ?? estimateRows(bytes, start), rowBound))
   const { rowValues, rowKinds } = sink
   let line = -1
   let pos = start

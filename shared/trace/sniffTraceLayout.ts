@@ -50,6 +50,8 @@ interface TokenisedLine {
 }
 
 const DELIMITERS = [',', ';', '\t']
+/** Oscilloscopes record a few channels and DAQ cards a few dozen; far more columns is not a trace. */
+const MAX_DATA_COLUMNS = 256
 const TIME_NAME = /^(?:time|t|x|sec|secs|second|seconds|horizontal|zeit|temps|tiempo)\b|\btime\b/i
 const INDEX_NAME = /^(?:index|idx|sample|samples|sample no\.?|sample number|point|points|pt|n|no\.?|nr\.?|#|i)$/i
 const CHANNEL_NAME_KEY = /^(?:source|channel|name|label|trace|signal)$/i
@@ -72,6 +74,12 @@ export function sniffTraceLayout(text: string, options: SniffTraceLayoutOptions 
   const tail = nonEmpty.slice(Math.floor(nonEmpty.length * 0.4))
 
   const dataColumns = findDataColumns(tail, singleColumn)
+  if (dataColumns.length > MAX_DATA_COLUMNS) {
+    throw new EngineError(
+      'too_many_columns',
+      `The file has ${dataColumns.length} numeric columns; a trace export has at most ${MAX_DATA_COLUMNS} (this looks like a matrix or an image, not channels over time).`,
+    )
+  }
   if (dataColumns.length === 0) {
     throw new EngineError('no_numeric_data', 'The file has no column of numbers: nothing in it can be read as samples.')
   }

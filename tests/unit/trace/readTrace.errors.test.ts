@@ -105,3 +105,10 @@ describe('readTrace errors name the problem', () => {
     expect(engineErrorOf(utf8(good), { roles: { ramp: 'laser' as never } }).code).toBe('invalid_option')
   })
 })
+
+describe('readTrace on pathological input', () => {
+  it('when a file has hundreds of thousands of numeric columns then too_many_columns (and it does not crawl)', () => {
+    const error = engineErrorOf(utf8('1.5,'.repeat(300_000)))
+    expect(error.code).toBe('too_many_columns')
+  })
+})
