@@ -56,7 +56,7 @@ export function readTrace(input: Uint8Array, options: ReadTraceOptions = {}): Tr
   if (encoding === 'latin-1') {
     warnings.push({ code: 'latin1_decoded', message: 'The file is not valid UTF-8; it was read as Latin-1 (Windows-1252).' })
   }
-  warnings.push(...describeCells(scanned))
+  warnings.push(...layout.warnings, ...describeCells(scanned))
 
   const channels: TraceChannel[] = layout.channels.map((sniffed, k) => {
     const values = scanned.values[firstChannel + k]

@@ -1,5 +1,5 @@
 import Papa from 'papaparse'
-import { EngineError } from '../errors'
+import { EngineError, type EngineWarning } from '../errors'
 import { CellKind, classifyCell } from './classifyCell'
 import { parseUnit } from './parseUnit'
 import { readHeaderTiming } from './readHeaderTiming'
@@ -31,6 +31,8 @@ export interface TraceLayout {
   metadata: Record<string, string>
   /** True when a header row named the columns. */
   hasHeader: boolean
+  /** Oddities of the layout worth telling the user (e.g. channel blocks on different time axes). */
+  warnings: EngineWarning[]
 }
 
 export interface SniffTraceLayoutOptions {
@@ -180,7 +182,31 @@ export function sniffTraceLayout(text: string, options: SniffTraceLayoutOptions 
   makeNamesUnique(channels)
   mergeBlockMetadata(metadata, blockMeta, blocksLedByTime ? blockChannelIndex.map((k) => channels[k]?.name ?? '') : null)
 
+  const warnings: EngineWarning[] = []
+  if (blocksLedByTime) {
+    const reference = headValues(groups[0][0])
+    const step = medianStep(reference)
+    groups.slice(1).forEach((group, k) => {
+      const other = headValues(group[0])
+      let worst = 0
+      for (let i = 0; i < Math.min(reference.length, other.length); i++) {
+        const gap = Math.abs(other[i] - reference[i])
+        if (gap > worst) worst = gap
+      }
+      // A lone printing glitch shows up in every block alike; a shift of half a sample or more is real.
+      const disagreeing = reference.filter((value, i) => Math.abs(other[i] - value) > 0.5 * step).length
+      if (disagreeing > 2) {
+        const name = channels[blockChannelIndex[k + 1]]?.name ?? `block ${k + 2}`
+        warnings.push({
+          code: 'block_times_differ',
+          message: `The time column of ${name}'s block differs from the first block's by up to ${(worst * timeScale).toPrecision(3)} s; all channels were put on the first block's time axis.`,
+        })
+      }
+    })
+  }
+
   return {
+    warnings,
     layout,
     delimiter,
     decimalComma,

@@ -276,3 +276,19 @@ describe('readTrace without a time column', () => {
     expect(trace.startTime).toBe(0)
   })
 })
+
+describe('readTrace side-by-side blocks on different time axes', () => {
+  it('when the second block prints shifted times then a warning says the first block\'s axis was used', () => {
+    const source = makeSweptTrace({ channels: ['ramp', 'transmission'] })
+    const lines = formatTraceCsv(source, { layout: 'side-by-side-blocks' }).trimEnd().split('\n')
+    const shifted = lines.map((line) => {
+      const cells = line.split(',')
+      cells[9] = String(Number(cells[9]) + 5e-6)
+      return cells.join(',')
+    })
+    const trace = readTrace(utf8(shifted.join('\n')))
+    expect(trace.warnings.map((w) => w.code)).toEqual(['block_times_differ'])
+    expect(trace.warnings[0].message).toContain("transmission's block")
+    expect(trace.startTime).toBeCloseTo(source.startTime, 12)
+  })
+})
