@@ -67,6 +67,8 @@ describe('accounts in a real browser', () => {
     await signOut()
     await page.goto(url)
     await page.getByRole('heading', { name: 'Join Cavitrace' }).waitFor()
+    // The page keeps the token but drops it from the address bar (and so from the history).
+    await page.waitForURL((address) => address.hash === '')
     await page.getByTestId('invitation-name').fill('Rowan Fieldwork')
     await choosePassword('short')
     expect(await page.getByTestId('password-hint').innerText()).toMatch(/at least 12 characters/)
