@@ -76,15 +76,17 @@ export function scanNumericColumns(bytes: Uint8Array, options: ScanNumericColumn
       if (slot >= 0) {
         const fieldStart = pos
         // Inline decimal parser: sign, digits, decimal mark, digits, exponent; spaces around are allowed.
+        // No bounds checks: past the end a typed array reads undefined, which matches no character, so a number
+        // cut by the end of the file simply falls to the slow path below.
         let p = pos
         while (p < n && bytes[p] === SPACE) p++
         let negative = false
-        c = p < n ? bytes[p] : NEWLINE
+        c = bytes[p]
         if (c === 45) {
           negative = true
-          c = ++p < n ? bytes[p] : NEWLINE
+          c = bytes[++p]
         } else if (c === 43) {
-          c = ++p < n ? bytes[p] : NEWLINE
+          c = bytes[++p]
         }
         let mantissa = 0
         let exponent = 0
@@ -94,39 +96,39 @@ export function scanNumericColumns(bytes: Uint8Array, options: ScanNumericColumn
           if (mantissa < MANTISSA_LIMIT) mantissa = mantissa * 10 + (c - 48)
           else exact = false
           digits++
-          c = ++p < n ? bytes[p] : NEWLINE
+          c = bytes[++p]
         }
         if (c === decimal) {
-          c = ++p < n ? bytes[p] : NEWLINE
+          c = bytes[++p]
           while (c >= 48 && c <= 57) {
             if (mantissa < MANTISSA_LIMIT) {
               mantissa = mantissa * 10 + (c - 48)
               exponent--
             } else if (c !== 48) exact = false
             digits++
-            c = ++p < n ? bytes[p] : NEWLINE
+            c = bytes[++p]
           }
         }
         if (digits > 0 && (c === 101 || c === 69)) {
-          c = ++p < n ? bytes[p] : NEWLINE
+          c = bytes[++p]
           let exponentNegative = false
           if (c === 45) {
             exponentNegative = true
-            c = ++p < n ? bytes[p] : NEWLINE
+            c = bytes[++p]
           } else if (c === 43) {
-            c = ++p < n ? bytes[p] : NEWLINE
+            c = bytes[++p]
           }
           let written = 0
           let exponentDigits = 0
           while (c >= 48 && c <= 57) {
             if (written < 100000) written = written * 10 + (c - 48)
             exponentDigits++
-            c = ++p < n ? bytes[p] : NEWLINE
+            c = bytes[++p]
           }
           if (exponentDigits === 0) digits = 0
           exponent += exponentNegative ? -written : written
         }
-        while (c === SPACE) c = ++p < n ? bytes[p] : NEWLINE
+        while (c === SPACE) c = bytes[++p]
         if (digits > 0 && exact && exponent >= -22 && exponent <= 22 && (c === delim || c === NEWLINE || c === RETURN)) {
           const magnitude = exponent >= 0 ? mantissa * POW10[exponent] : mantissa / POW10[-exponent]
           rowValues[slot] = negative ? -magnitude : magnitude
