@@ -70,7 +70,8 @@ export const router = createRouter({ history: createWebHistory(), routes })
 router.beforeEach(async (to) => {
   const session = useSessionStore()
   try {
-    await session.load()
+    // Re-asked at most once a minute, so a session that expired or was ended elsewhere leads to sign-in.
+    await session.load({ maxAgeMs: 60_000 })
   } catch {
     // The server is unreachable: treat as signed out; the sign-in page says what went wrong.
   }

@@ -14,16 +14,24 @@ export const useSessionStore = defineStore('session', () => {
   const signedIn = computed(() => user.value !== null)
   let pending: Promise<void> | undefined
 
-  /** Ask the server who is signed in (once; `force` asks again). A 401 simply means signed out. */
-  function load(force = false): Promise<void> {
-    if (known.value && !force) return Promise.resolve()
+  let checkedAt = 0
+
+  /**
+   * Ask the server who is signed in, unless it was asked less than `maxAgeMs` ago (so an expired or
+   * ended session is noticed on the next navigation). A 401 simply means signed out.
+   */
+  function load(options: { maxAgeMs?: number } = {}): Promise<void> {
+    const { maxAgeMs = Number.POSITIVE_INFINITY } = options
+    if (known.value && Date.now() - checkedAt < maxAgeMs) return Promise.resolve()
     pending ??= apiRequest<SessionAnswer>('/auth/me')
       .then((answer) => {
         user.value = answer.user
+        checkedAt = Date.now()
       })
       .catch((error: unknown) => {
         if (!(error instanceof ApiError) || error.status !== 401) throw error
         user.value = null
+        checkedAt = Date.now()
       })
       .finally(() => {
         known.value = true
@@ -37,6 +45,7 @@ export const useSessionStore = defineStore('session', () => {
     const answer = await apiRequest<SessionAnswer>('/auth/login', { method: 'POST', body: input })
     user.value = answer.user
     known.value = true
+    checkedAt = Date.now()
     return answer.user
   }
 
@@ -44,6 +53,7 @@ export const useSessionStore = defineStore('session', () => {
   function adopt(next: SessionUser): void {
     user.value = next
     known.value = true
+    checkedAt = Date.now()
   }
 
   /** Sign out here and end the server-side session. */
