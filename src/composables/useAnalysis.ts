@@ -7,7 +7,7 @@ import { computed, onScopeDispose, shallowRef, toValue, watch, type MaybeRefOrGe
 import { getAnalysis, requestAnalysis, type AnalysisOptions, type AnalysisRecord } from '../api/cavities'
 import type { ApiError } from '../api/client'
 import { useCavityEvents } from './useCavityEvents'
-import { asApiError, useCavitraceLoader } from './useCavitraceLoader'
+import { asApiError, runAction, useCavitraceLoader } from './useCavitraceLoader'
 
 export interface UseAnalysisOptions {
   /** Poll interval while the analysis is unfinished, ms. @default 3000 */
@@ -43,14 +43,7 @@ export function useAnalysis(id: MaybeRefOrGetter<string | null | undefined>, opt
   async function rerun(analysisOptions: AnalysisOptions): Promise<{ analysis: AnalysisRecord } | { error: ApiError }> {
     const traceId = resource.data.value?.traceId
     if (!traceId) return { error: asApiError(new Error('The analysis is not loaded yet.')) }
-    requesting.value = true
-    try {
-      return await requestAnalysis(traceId, analysisOptions)
-    } catch (caught) {
-      return { error: asApiError(caught) }
-    } finally {
-      requesting.value = false
-    }
+    return runAction(requesting, () => requestAnalysis(traceId, analysisOptions))
   }
 
   return { ...resource, unfinished, requesting, rerun }

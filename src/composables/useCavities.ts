@@ -2,7 +2,7 @@
 import { shallowRef } from 'vue'
 import { createCavity, listCavities, type Cavity, type CavityInput } from '../api/cavities'
 import type { ApiError } from '../api/client'
-import { asApiError, useCavitraceLoader } from './useCavitraceLoader'
+import { runAction, useCavitraceLoader } from './useCavitraceLoader'
 
 export function useCavities(options: { archived?: boolean } = {}) {
   const resource = useCavitraceLoader('cavities', (_key, signal) => listCavities({ archived: options.archived, signal }).then((answer) => answer.cavities))
@@ -11,16 +11,11 @@ export function useCavities(options: { archived?: boolean } = {}) {
 
   /** Create a cavity; resolves to the stored cavity, or to the server's refusal as an ApiError. */
   async function create(input: CavityInput): Promise<{ cavity: Cavity } | { error: ApiError }> {
-    saving.value = true
-    try {
+    return runAction(saving, async () => {
       const { cavity } = await createCavity(input)
       await resource.reload({ quiet: true })
       return { cavity }
-    } catch (caught) {
-      return { error: asApiError(caught) }
-    } finally {
-      saving.value = false
-    }
+    })
   }
 
   return { ...resource, saving, create }

@@ -59,3 +59,18 @@ export function useCavitraceLoader<T>(key: MaybeRefOrGetter<string | null | unde
 export function asApiError(caught: unknown): ApiError {
   return caught instanceof ApiError ? caught : new ApiError(0, 'unknown', caught instanceof Error ? caught.message : String(caught))
 }
+
+/**
+ * Run a write (create, edit, re-analyse) with a busy flag: resolves to its answer, or to `{ error }` with
+ * the server's refusal, so forms can show the message without try/catch of their own.
+ */
+export async function runAction<T extends object>(busy: ShallowRef<boolean>, work: () => Promise<T>): Promise<T | { error: ApiError }> {
+  busy.value = true
+  try {
+    return await work()
+  } catch (caught) {
+    return { error: asApiError(caught) }
+  } finally {
+    busy.value = false
+  }
+}

@@ -2,7 +2,7 @@
 import { shallowRef, toValue, type MaybeRefOrGetter } from 'vue'
 import { editCavity, getCavity, type Cavity, type CavityPatch } from '../api/cavities'
 import type { ApiError } from '../api/client'
-import { asApiError, useCavitraceLoader } from './useCavitraceLoader'
+import { asApiError, runAction, useCavitraceLoader } from './useCavitraceLoader'
 
 export function useCavity(id: MaybeRefOrGetter<string | null | undefined>) {
   const resource = useCavitraceLoader(id, (key, signal) => getCavity(key, signal))
@@ -13,16 +13,11 @@ export function useCavity(id: MaybeRefOrGetter<string | null | undefined>) {
   async function save(patch: CavityPatch): Promise<{ cavity: Cavity } | { error: ApiError }> {
     const key = toValue(id)
     if (!key) return { error: asApiError(new Error('No cavity is open.')) }
-    saving.value = true
-    try {
+    return runAction(saving, async () => {
       const { cavity } = await editCavity(key, patch)
       await resource.reload({ quiet: true })
       return { cavity }
-    } catch (caught) {
-      return { error: asApiError(caught) }
-    } finally {
-      saving.value = false
-    }
+    })
   }
 
   return { ...resource, saving, save }
