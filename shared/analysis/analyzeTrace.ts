@@ -48,15 +48,19 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   // 1. Sweep part: from the ramp, or from the resonances themselves when there is none.
   const range = sweepPart === 'auto' ? undefined : indexRange(trace, sweepPart)
   let sweep = selectSweep(channels.ramp?.values ?? null, trace.sampleCount, { range })
+  let whole: PreparedSignal | null = null
   if (!channels.ramp && !range) {
-    const whole = prepareSignal(values)
+    whole = prepareSignal(values)
     const tall = tallResonances(whole.signal, whole.sigmaV)
     sweep = findSweepInData(tall, trace.sampleCount)
   }
   const part = values.subarray(sweep.startIndex, sweep.endIndex)
 
-  // 2. Baseline and noise.
-  const { signal, sigmaV, darkLevelV, quantumV } = prepareSignal(part)
+  // 2. Baseline and noise (without a ramp they were found on the whole record already: the same drift-following
+  // baseline and noise serve the part).
+  const { signal, sigmaV, darkLevelV, quantumV } = whole
+    ? { ...whole, signal: whole.signal.subarray(sweep.startIndex, sweep.endIndex) }
+    : prepareSignal(part)
 
   // 3. Pass 1: the tall resonances give the TEM00 linewidth in samples.
   const tall = tallResonances(signal, sigmaV)
@@ -147,7 +151,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
         orders: measuredOrders(families.leaders, labels),
         firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
-        timeAt: (i) => timeAt(sweep.startIndex + i),
+        startSeconds: timeAt(sweep.startIndex), dtSeconds: dt,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
       })
     : fundamentalOnlyShares(measured, comb.members)
@@ -322,14 +326,30 @@ function chooseComb(
   return best
 }
 
+interface PreparedSignal {
+  signal: Float64Array
+  sigmaV: number
+  darkLevelV: number
+  quantumV: number
+}
+
 /** Baseline-subtracted signal with its noise level. */
-function prepareSignal(part: Float64Array): { signal: Float64Array; sigmaV: number; darkLevelV: number; quantumV: number } {
+function prepareSignal(part: Float64Array): PreparedSignal {
   const noise = estimateNoise(part)
   const sigmaV = Math.max(noise.sigmaV, 1e-9 * spanOf(part))
   const { baselineV, darkLevelV } = estimateBaseline(part, sigmaV)
-  const signal = new Float64Array(part.length)
-  for (let i = 0; i < part.length; i++) signal[i] = Number.isFinite(part[i]) ? part[i] - baselineV[i] : 0
+  // The baseline's own array becomes the signal (one array less on long records).
+  const signal = subtractInPlace(part, baselineV)
   return { signal, sigmaV, darkLevelV, quantumV: noise.quantumV }
+}
+
+/** part − baseline, written over the baseline's array (non-finite samples become 0). */
+function subtractInPlace(part: Float64Array, baselineV: Float64Array): Float64Array {
+  for (let i = 0; i < part.length; i++) {
+    const v = part[i]
+    baselineV[i] = v - v === 0 ? v - baselineV[i] : 0
+  }
+  return baselineV
 }
 
 /** A tall resonance measured from its half-maximum crossings. */
@@ -454,7 +474,9 @@ interface ShareInputs {
   orders: number[]
   firstIndex: number
   lastIndex: number
-  timeAt: (index: number) => number
+  /** Time of the part's first sample and the sample interval, seconds. */
+  startSeconds: number
+  dtSeconds: number
   preferHeight: boolean
 }
 
@@ -511,22 +533,24 @@ function peakAreaShares(
   }
 }
 
+/** Lines are modelled out to ± this many linewidths (see fitOrderPowers). */
+const SUPPORT_LINEWIDTHS = 15
+
 function measureOrderShares(input: ShareInputs): Shares {
   const { signal, calibration, direction, gouy, finesse, firstIndex, lastIndex } = input
   const n = signal.length
-  const nu = new Float64Array(n)
   const c = calibration.coefficients
-  for (let i = 0; i < n; i++) {
-    const u = (input.timeAt(i) - calibration.t0Seconds) / calibration.scaleSeconds
-    let v = 0
-    for (let k = c.length - 1; k >= 0; k--) v = v * u + c[k]
-    nu[i] = v
-  }
+  // ν(i) = Σ cₖ uᵏ with u linear in the sample index: evaluated on a coarse grid first, then only in the windows
+  // the lines reach (a high-finesse trace is mostly dark between its resonances).
+  const u0 = (input.startSeconds - calibration.t0Seconds) / calibration.scaleSeconds
+  const du = input.dtSeconds / calibration.scaleSeconds
+  const cell = Math.max(1, Math.floor(n / 4096))
+  const gridNu = gridFrequencies(n, cell, u0, du, c)
   let lo = Infinity
   let hi = -Infinity
-  for (let i = 0; i < n; i++) {
-    if (nu[i] < lo) lo = nu[i]
-    if (nu[i] > hi) hi = nu[i]
+  for (let g = 0; g < gridNu.length; g++) {
+    if (gridNu[g] < lo) lo = gridNu[g]
+    if (gridNu[g] > hi) hi = gridNu[g]
   }
   const sign = direction === 'up' ? 1 : -1
   const lines: PredictedLine[] = []
@@ -539,7 +563,11 @@ function measureOrderShares(input: ShareInputs): Shares {
       lines.push({ nu: at, order, counted })
     }
   }
-  const fit = fitOrderPowers(signal, nu, lines, { finesse, sidebands: input.sidebands, sigmaV: input.sigmaV })
+  const sidebandReach = input.sidebands && input.sidebands.ratio > 0 ? input.sidebands.offsetFsr : 0
+  const support = Math.min(0.5, SUPPORT_LINEWIDTHS / finesse) + sidebandReach
+  const centres = Float64Array.from(lines, (l) => l.nu).sort()
+  const { y, nu, stepFsr } = samplesNearLines(signal, cell, gridNu, centres, support, u0, du, c)
+  const fit = fitOrderPowers(y, nu, lines, { finesse, sidebands: input.sidebands, sigmaV: input.sigmaV, supportLinewidths: SUPPORT_LINEWIDTHS, stepFsr })
   const useHeight = input.preferHeight && fit.reducedChiSquare <= MAX_LINE_CHI_SQUARE
   const m = lines.length
   const sums = new Map<number, { value: number; variance: number }>()
@@ -586,6 +614,79 @@ function measureOrderShares(input: ShareInputs): Shares {
       return 0
     },
   }
+}
+
+/** ν at every `cell`-th sample (and the last), ν = Σ cₖ uᵏ with u = u0 + i·du. */
+function gridFrequencies(n: number, cell: number, u0: number, du: number, c: number[]): Float64Array {
+  const cellCount = Math.ceil((n - 1) / cell)
+  const gridNu = new Float64Array(cellCount + 1)
+  for (let g = 0; g <= cellCount; g++) {
+    const u = u0 + Math.min(n - 1, g * cell) * du
+    let v = 0
+    for (let k = c.length - 1; k >= 0; k--) v = v * u + c[k]
+    gridNu[g] = v
+  }
+  return gridNu
+}
+
+/**
+ * The samples within `support` of some line centre (whole grid cells whose ν range, widened by half its span for
+ * curvature, meets a line's support), with their ν and their width on the ν axis.
+ */
+function samplesNearLines(
+  signal: Float64Array,
+  cell: number,
+  gridNu: Float64Array,
+  centres: Float64Array,
+  support: number,
+  u0: number,
+  du: number,
+  c: number[],
+): { y: Float64Array; nu: Float64Array; stepFsr: Float64Array } {
+  const n = signal.length
+  const cellCount = gridNu.length - 1
+  const take = new Uint8Array(cellCount)
+  let total = 0
+  for (let g = 0; g < cellCount; g++) {
+    const a0 = Math.min(gridNu[g], gridNu[g + 1])
+    const b0 = Math.max(gridNu[g], gridNu[g + 1])
+    const a = a0 - 0.5 * (b0 - a0) - support
+    const b = b0 + 0.5 * (b0 - a0) + support
+    // First line centre at or above a; the cell is reached when it lies at or below b.
+    let l = 0
+    let h = centres.length
+    while (l < h) {
+      const mid = (l + h) >> 1
+      if (centres[mid] < a) l = mid + 1
+      else h = mid
+    }
+    if (l < centres.length && centres[l] <= b) {
+      take[g] = 1
+      total += (g + 1 === cellCount ? n : (g + 1) * cell) - g * cell
+    }
+  }
+  const y = new Float64Array(total)
+  const nu = new Float64Array(total)
+  const stepFsr = new Float64Array(total)
+  let w = 0
+  for (let g = 0; g < cellCount; g++) {
+    if (!take[g]) continue
+    const end = g + 1 === cellCount ? n : (g + 1) * cell
+    for (let i = g * cell; i < end; i++) {
+      const u = u0 + i * du
+      let v = 0
+      let d = 0
+      for (let k = c.length - 1; k >= 0; k--) {
+        d = d * u + v
+        v = v * u + c[k]
+      }
+      y[w] = signal[i]
+      nu[w] = v
+      stepFsr[w] = Math.abs(d * du)
+      w++
+    }
+  }
+  return { y, nu, stepFsr }
 }
 
 /** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */

@@ -79,13 +79,22 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
 }
 
 function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV: number, sigmaV: number): string | null {
+  // Highest value and the longest run of samples holding it, in one pass.
   let top = -Infinity
-  for (let i = 0; i < part.length; i++) if (part[i] > top) top = part[i]
   let longestRun = 0
   let run = 0
   for (let i = 0; i < part.length; i++) {
-    run = part[i] === top ? run + 1 : 0
-    if (run > longestRun) longestRun = run
+    const v = part[i]
+    if (v > top) {
+      top = v
+      run = 1
+      longestRun = 1
+    } else if (v === top) {
+      run++
+      if (run > longestRun) longestRun = run
+    } else {
+      run = 0
+    }
   }
   // A real peak touches its maximum once; a clipped digitiser holds it, or stops several peaks at one code.
   let peaksAtTop = 0
@@ -97,7 +106,8 @@ function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV:
     }
   }
   // A fit through the wings that overshoots the highest sample means the top was cut off.
-  const overshoot = measured.some((m) => m.fitted && m.heightV > top + Math.max(5 * sigmaV, 2 * quantumV) - baselineOf(part))
+  const ceilingV = top + Math.max(5 * sigmaV, 2 * quantumV) - baselineOf(part)
+  const overshoot = measured.some((m) => m.fitted && m.heightV > ceilingV)
   const heights = measured.map((m) => m.maxV).sort((a, b) => b - a)
   const uneven = heights.length >= 3 && heights[0] > 1.3 * heights[Math.min(heights.length - 1, 2)]
   if (overshoot || (quantumV > 0 && peaksAtTop >= 2 && uneven && longestRun >= 1)) {

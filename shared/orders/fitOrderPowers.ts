@@ -20,6 +20,11 @@ export interface FitOrderPowersOptions {
   supportLinewidths?: number
   /** Half-width of the summation window for the area measure, in linewidths (plus the sideband offset). @default 6 */
   areaLinewidths?: number
+  /**
+   * Width of each sample on the frequency axis, FSR units (|dν/dt|·Δt). Needed when the samples are not contiguous
+   * (only the windows around the lines are handed over). @default from the neighbouring samples' ν
+   */
+  stepFsr?: Float64Array | null
 }
 
 export interface LinePower {
@@ -56,57 +61,27 @@ export interface OrderPowerFit {
  * power ratios. A second pass sums the data in a window about each line (neighbours removed) for the area measure.
  */
 export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: PredictedLine[], options: FitOrderPowersOptions): OrderPowerFit {
-  const { finesse, sidebands = null, sigmaV, supportLinewidths = 15, areaLinewidths = 6 } = options
+  const { finesse, sidebands = null, sigmaV, supportLinewidths = 15, areaLinewidths = 6, stepFsr = null } = options
   if (nu.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and nu must have the same length')
+  if (stepFsr && stepFsr.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and stepFsr must have the same length')
   if (!(finesse > 1)) throw new EngineError('invalid_argument', `finesse must be above 1, got ${finesse}`)
   if (!(sigmaV > 0)) throw new EngineError('invalid_argument', `sigmaV must be above 0, got ${sigmaV}`)
   const m = lines.length
   const p = m + 1
   const order = lines.map((_, j) => j).sort((a, b) => lines[a].nu - lines[b].nu)
   const sortedNu = Float64Array.from(order, (j) => lines[j].nu)
-  const k2 = ((2 * finesse) / Math.PI) ** 2
-  const delta = sidebands && sidebands.ratio > 0 ? sidebands.offsetFsr : 0
-  const ratio = delta > 0 ? sidebands!.ratio : 0
-  const support = Math.min(0.5, supportLinewidths / finesse) + delta
-  const airy = (z: number) => {
-    const s = Math.sin(Math.PI * z)
-    return 1 / (1 + k2 * s * s)
+  const shape: LineShape = {
+    k2: ((2 * finesse) / Math.PI) ** 2,
+    delta: sidebands && sidebands.ratio > 0 ? sidebands.offsetFsr : 0,
+    ratio: sidebands && sidebands.ratio > 0 ? sidebands.ratio : 0,
   }
-  const unit = delta > 0 ? (z: number) => airy(z) + ratio * (airy(z - delta) + airy(z + delta)) : airy
+  const support = Math.min(0.5, supportLinewidths / finesse) + shape.delta
+  const sortedOrder = Int32Array.from(order)
 
-  const n = signalV.length
+  // Pass 1: normal equations over the samples within reach of some line, plus the constant level.
   const ata = new Float64Array(p * p)
   const aty = new Float64Array(p)
-  const active = new Int32Array(m + 1)
-  const values = new Float64Array(m + 1)
-  let first = 0
-  let used = 0
-  let yy = 0
-  // Pass 1: normal equations over the samples within reach of some line, plus the constant level.
-  for (let i = 0; i < n; i++) {
-    const v = nu[i]
-    const y = signalV[i]
-    if (!Number.isFinite(v) || !Number.isFinite(y)) continue
-    while (first < m && sortedNu[first] < v - support) first++
-    let count = 0
-    for (let s = first; s < m && sortedNu[s] <= v + support; s++) {
-      active[count] = order[s]
-      values[count] = unit(v - sortedNu[s])
-      count++
-    }
-    if (count === 0) continue
-    active[count] = m
-    values[count] = 1
-    count++
-    used++
-    yy += y * y
-    for (let a = 0; a < count; a++) {
-      const ra = active[a] * p
-      const va = values[a]
-      aty[active[a]] += va * y
-      for (let b = 0; b < count; b++) ata[ra + active[b]] += va * values[b]
-    }
-  }
+  const used = accumulateNormalEquations(signalV, nu, sortedNu, sortedOrder, support, shape, ata, aty)
   const observed = lines.map((_, j) => ata[j * p + j] > 0)
   for (let j = 0; j < p; j++) {
     if (!(ata[j * p + j] > 0)) { ata[j * p + j] = 1; aty[j] = 0 }
@@ -127,49 +102,134 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   }
 
   // Pass 2: residuals and the windowed sums of the area measure.
-  const areaHalf = lines.map(() => Math.min(support, areaLinewidths / finesse + delta))
-  const sumData = new Float64Array(m)
-  const sumUnit = new Float64Array(m)
-  const sumWidth2 = new Float64Array(m)
-  let rss = 0
-  first = 0
+  const sums = { data: new Float64Array(m), unit: new Float64Array(m), width2: new Float64Array(m) }
+  const areaHalf = Math.min(support, areaLinewidths / finesse + shape.delta)
+  const rss = residualsAndAreas(signalV, nu, stepFsr, sortedNu, sortedOrder, support, areaHalf, shape, heights, offsetV, sums)
+  const result: LinePower[] = lines.map((_, j) => ({
+    heightV: observed[j] ? heights[j] : 0,
+    heightErrorV: observed[j] ? Math.sqrt(Math.max(0, covariance[j * m + j])) : Infinity,
+    areaHeightV: sums.unit[j] > 0 ? sums.data[j] / sums.unit[j] : 0,
+    areaHeightErrorV: sums.unit[j] > 0 ? (sigmaV * Math.sqrt(sums.width2[j])) / sums.unit[j] : Infinity,
+    observed: observed[j],
+  }))
+  return { lines: result, offsetV, reducedChiSquare: used > p ? rss / (sigmaV * sigmaV * (used - p)) : NaN, covariance }
+}
+
+/** Airy line 1/(1 + k² sin²(πz)) with optional sidebands of relative power `ratio` at ±delta. */
+interface LineShape {
+  k2: number
+  delta: number
+  ratio: number
+}
+
+function unitLine(z: number, shape: LineShape): number {
+  const s = Math.sin(Math.PI * z)
+  let v = 1 / (1 + shape.k2 * s * s)
+  if (shape.delta > 0) {
+    const a = Math.sin(Math.PI * (z - shape.delta))
+    const b = Math.sin(Math.PI * (z + shape.delta))
+    v += shape.ratio * (1 / (1 + shape.k2 * a * a) + 1 / (1 + shape.k2 * b * b))
+  }
+  return v
+}
+
+// The per-sample passes live in small functions of their own: the JavaScript engine then compiles each hot loop
+// once and keeps it compiled, instead of recompiling one long function at every loop it reaches.
+
+/** Adds every sample within reach of a line to AᵀA and Aᵀy; returns the number of samples used. */
+function accumulateNormalEquations(
+  signalV: Float64Array,
+  nu: Float64Array,
+  sortedNu: Float64Array,
+  sortedOrder: Int32Array,
+  support: number,
+  shape: LineShape,
+  ata: Float64Array,
+  aty: Float64Array,
+): number {
+  const n = signalV.length
+  const m = sortedNu.length
+  const p = m + 1
+  const active = new Int32Array(m + 1)
+  const values = new Float64Array(m + 1)
+  let first = 0
+  let used = 0
   for (let i = 0; i < n; i++) {
     const v = nu[i]
     const y = signalV[i]
-    if (!Number.isFinite(v) || !Number.isFinite(y)) continue
+    if (!(v - v === 0) || !(y - y === 0)) continue
+    while (first < m && sortedNu[first] < v - support) first++
+    let count = 0
+    for (let s = first; s < m && sortedNu[s] <= v + support; s++) {
+      active[count] = sortedOrder[s]
+      values[count] = unitLine(v - sortedNu[s], shape)
+      count++
+    }
+    if (count === 0) continue
+    active[count] = m
+    values[count] = 1
+    count++
+    used++
+    for (let a = 0; a < count; a++) {
+      const ra = active[a] * p
+      const va = values[a]
+      aty[active[a]] += va * y
+      for (let b = 0; b < count; b++) ata[ra + active[b]] += va * values[b]
+    }
+  }
+  return used
+}
+
+/** Residual sum of squares of the fitted lines, and per line the windowed sums of the area measure. */
+function residualsAndAreas(
+  signalV: Float64Array,
+  nu: Float64Array,
+  stepFsr: Float64Array | null,
+  sortedNu: Float64Array,
+  sortedOrder: Int32Array,
+  support: number,
+  areaHalf: number,
+  shape: LineShape,
+  heights: Float64Array,
+  offsetV: number,
+  sums: { data: Float64Array; unit: Float64Array; width2: Float64Array },
+): number {
+  const n = signalV.length
+  const m = sortedNu.length
+  const active = new Int32Array(m + 1)
+  const values = new Float64Array(m + 1)
+  let first = 0
+  let rss = 0
+  for (let i = 0; i < n; i++) {
+    const v = nu[i]
+    const y = signalV[i]
+    if (!(v - v === 0) || !(y - y === 0)) continue
     while (first < m && sortedNu[first] < v - support) first++
     let count = 0
     let model = offsetV
     for (let s = first; s < m && sortedNu[s] <= v + support; s++) {
-      const j = order[s]
-      const b = unit(v - sortedNu[s])
+      const b = unitLine(v - sortedNu[s], shape)
       active[count] = s
       values[count] = b
-      model += heights[j] * b
+      model += heights[sortedOrder[s]] * b
       count++
     }
     if (count === 0) continue
-    rss += (y - model) ** 2
-    const dnu = Math.abs((nu[Math.min(n - 1, i + 1)] - nu[Math.max(0, i - 1)]) / (Math.min(n - 1, i + 1) - Math.max(0, i - 1) || 1))
+    rss += (y - model) * (y - model)
+    const lo = i > 0 ? i - 1 : 0
+    const hi = i + 1 < n ? i + 1 : n - 1
+    const dnu = stepFsr ? stepFsr[i] : Math.abs((nu[hi] - nu[lo]) / (hi - lo || 1))
     for (let a = 0; a < count; a++) {
       const s = active[a]
-      const j = order[s]
-      if (Math.abs(v - sortedNu[s]) > areaHalf[j]) continue
+      if (Math.abs(v - sortedNu[s]) > areaHalf) continue
+      const j = sortedOrder[s]
       const own = heights[j] * values[a]
-      sumData[j] += (y - (model - own)) * dnu
-      sumUnit[j] += values[a] * dnu
-      sumWidth2[j] += dnu * dnu
+      sums.data[j] += (y - (model - own)) * dnu
+      sums.unit[j] += values[a] * dnu
+      sums.width2[j] += dnu * dnu
     }
   }
-  const result: LinePower[] = lines.map((_, j) => ({
-    heightV: observed[j] ? heights[j] : 0,
-    heightErrorV: observed[j] ? Math.sqrt(Math.max(0, covariance[j * m + j])) : Infinity,
-    areaHeightV: sumUnit[j] > 0 ? sumData[j] / sumUnit[j] : 0,
-    areaHeightErrorV: sumUnit[j] > 0 ? (sigmaV * Math.sqrt(sumWidth2[j])) / sumUnit[j] : Infinity,
-    observed: observed[j],
-  }))
-  void yy
-  return { lines: result, offsetV, reducedChiSquare: used > p ? rss / (sigmaV * sigmaV * (used - p)) : NaN, covariance }
+  return rss
 }
 
 /** Cholesky factor L (row-major, lower) of a symmetric positive-definite matrix; tiny pivots are floored. */

@@ -28,35 +28,43 @@ export function estimateBaseline(values: Float64Array, sigmaV: number, options: 
   if (n < 3) throw new EngineError('too_few_samples', `A baseline needs at least 3 samples, got ${n}`)
   if (!(sigmaV >= 0)) throw new EngineError('invalid_argument', `sigmaV must be a non-negative number, got ${sigmaV}`)
   const blocks = followDrift ? Math.max(1, Math.min(blockCount, Math.floor(n / 64))) : 1
-  const stride = Math.max(1, Math.floor(n / blocks / 4000))
+  const stride = Math.max(1, Math.floor(n / blocks / 1500))
+  const scratch = new Float64Array(Math.ceil(Math.ceil(n / blocks + 1) / stride) + 1)
   const levels: number[] = []
   const centres: number[] = []
   for (let b = 0; b < blocks; b++) {
     const i0 = Math.floor((b * n) / blocks)
     const i1 = Math.floor(((b + 1) * n) / blocks)
-    const sample: number[] = []
-    for (let i = i0; i < i1; i += stride) if (Number.isFinite(values[i])) sample.push(values[i])
-    levels.push(clippedMedian(sample, sigmaV, clipSigma))
+    let count = 0
+    for (let i = i0; i < i1; i += stride) if (Number.isFinite(values[i])) scratch[count++] = values[i]
+    // Native numeric sort of a typed array: no comparator calls, no boxed numbers.
+    levels.push(clippedMedian(scratch.subarray(0, count).sort(), sigmaV, clipSigma))
     centres.push((i0 + i1 - 1) / 2)
   }
   const finiteLevels = levels.filter(Number.isFinite)
   if (finiteLevels.length === 0) throw new EngineError('no_numeric_data', 'The transmission channel holds no finite values')
   const darkLevelV = median(finiteLevels.slice())
   for (let b = 0; b < levels.length; b++) if (!Number.isFinite(levels[b])) levels[b] = darkLevelV
+  const baselineV = interpolateLevels(levels, centres, n)
+  return { baselineV, darkLevelV }
+}
+
+/** `sample` sorted ascending. */
+/** Piecewise-linear level through the block centres, held flat beyond the first and last. */
+function interpolateLevels(levels: number[], centres: number[], n: number): Float64Array {
   const baselineV = new Float64Array(n)
+  if (levels.length === 1) return baselineV.fill(levels[0])
   let b = 0
   for (let i = 0; i < n; i++) {
-    if (levels.length === 1) { baselineV[i] = levels[0]; continue }
     while (b + 2 < centres.length && i > centres[b + 1]) b++
     const f = Math.min(1, Math.max(0, (i - centres[b]) / (centres[b + 1] - centres[b])))
     baselineV[i] = levels[b] + f * (levels[b + 1] - levels[b])
   }
-  return { baselineV, darkLevelV }
+  return baselineV
 }
 
-function clippedMedian(sample: number[], sigmaV: number, clipSigma: number): number {
+function clippedMedian(sample: Float64Array, sigmaV: number, clipSigma: number): number {
   if (sample.length === 0) return NaN
-  sample.sort((a, b) => a - b)
   let level = sample[Math.floor(sample.length / 2)]
   let count = sample.length
   for (let iteration = 0; iteration < 8; iteration++) {

@@ -47,7 +47,7 @@ export function findResonances(signalV: Float64Array, sigmaV: number, options: F
     if (!(v > minProminence)) continue
     if (i > 0 && !(v > signalV[i - 1])) continue
     if (i + 1 < n && v < signalV[i + 1]) continue
-    const prominence = prominenceAt(signalV, i, maxWalk)
+    const prominence = prominenceAt(signalV, i, maxWalk, minProminence)
     if (prominence >= minProminence) maxima.push({ index: i, prominence, halfWidth: halfProminenceWidth(signalV, i, prominence, maxWalk) })
   }
   // Group maxima that sit within a couple of their own widths: structure inside one resonance.
@@ -109,17 +109,46 @@ function mergeRingingTails(groups: number[][], maxima: { index: number; halfWidt
   }
 }
 
-/** Height above the higher of the lowest points met on each side before reaching higher ground. */
-function prominenceAt(s: Float64Array, i: number, maxWalk: number): number {
+/**
+ * Height above the higher of the lowest points met on each side before reaching higher ground. Both sides are
+ * walked in step: when one side meets higher ground first, its lowest point already bounds the prominence from
+ * above (prominence ≤ h − that side's low), so a noise maximum on a resonance's flank is rejected after a few
+ * samples instead of a walk down the whole flank (the result is the same as walking both sides in full).
+ */
+function prominenceAt(s: Float64Array, i: number, maxWalk: number, minProminence: number): number {
   const h = s[i]
-  let leftMin = h
-  let j = i - 1
   const leftStop = Math.max(0, i - maxWalk)
-  while (j >= leftStop && !(s[j] > h)) { if (s[j] < leftMin) leftMin = s[j]; j-- }
-  let rightMin = h
-  let k = i + 1
   const rightStop = Math.min(s.length - 1, i + maxWalk)
-  while (k <= rightStop && !(s[k] > h)) { if (s[k] < rightMin) rightMin = s[k]; k++ }
+  let leftMin = h
+  let rightMin = h
+  let j = i - 1
+  let k = i + 1
+  let leftOpen = j >= leftStop
+  let rightOpen = k <= rightStop
+  while (leftOpen || rightOpen) {
+    if (leftOpen) {
+      const v = s[j]
+      if (v > h) {
+        leftOpen = false
+        if (h - leftMin < minProminence) return h - leftMin
+      } else {
+        if (v < leftMin) leftMin = v
+        j--
+        if (j < leftStop) leftOpen = false
+      }
+    }
+    if (rightOpen) {
+      const v = s[k]
+      if (v > h) {
+        rightOpen = false
+        if (h - rightMin < minProminence) return h - rightMin
+      } else {
+        if (v < rightMin) rightMin = v
+        k++
+        if (k > rightStop) rightOpen = false
+      }
+    }
+  }
   return h - Math.max(leftMin, rightMin)
 }
 

@@ -22,22 +22,23 @@ export function smoothSignal(values: Float64Array, options: SmoothSignalOptions 
     for (let i = 0; i < n; i++) out[i] = Number.isFinite(values[i]) ? values[i] : 0
     return out
   }
+  // Running sum: each step adds the sample entering the window and drops the one leaving it.
   let sum = 0
   let count = 0
-  let lo = 0
-  let hi = -1
+  for (let k = 0; k < Math.min(n, halfWidth); k++) {
+    const v = values[k]
+    if (v - v === 0) { sum += v; count++ }
+  }
   for (let i = 0; i < n; i++) {
-    const want1 = Math.min(n - 1, i + halfWidth)
-    while (hi < want1) {
-      hi++
-      const v = values[hi]
-      if (Number.isFinite(v)) { sum += v; count++ }
+    const entering = i + halfWidth
+    if (entering < n) {
+      const v = values[entering]
+      if (v - v === 0) { sum += v; count++ }
     }
-    const want0 = i - halfWidth
-    while (lo < want0) {
-      const v = values[lo]
-      if (Number.isFinite(v)) { sum -= v; count-- }
-      lo++
+    const leaving = i - halfWidth - 1
+    if (leaving >= 0) {
+      const v = values[leaving]
+      if (v - v === 0) { sum -= v; count-- }
     }
     out[i] = count > 0 ? sum / count : 0
   }

@@ -39,11 +39,16 @@ export function selectSweep(rampV: Float64Array | null, sampleCount: number, opt
   if (!rampV) {
     return { startIndex: 0, endIndex: sampleCount, rampDirection: 'unknown', evidence: 'No ramp channel: the whole record is used.', segmentCount: 0 }
   }
-  const smooth = smoothRamp(rampV)
+  // The ramp is smoothed over ~1 % of the record; that scale allows working on block means of up to 1/8 of the
+  // smoothing half-width, which keeps the passes short on long records (turning points to within one block).
+  const half = Math.max(1, Math.round(sampleCount / 200))
+  const block = Math.max(1, Math.floor(half / 8))
+  const smooth = smoothRamp(blockMeans(rampV, block), Math.max(1, Math.round(half / block)))
+  const blocks = smooth.length
   let lo = Infinity
   let hi = -Infinity
-  for (let i = 0; i < smooth.length; i++) {
-    const v = smooth[i]
+  for (let b = 0; b < blocks; b++) {
+    const v = smooth[b]
     if (Number.isFinite(v)) {
       if (v < lo) lo = v
       if (v > hi) hi = v
@@ -53,7 +58,9 @@ export function selectSweep(rampV: Float64Array | null, sampleCount: number, opt
   if (!(span > 0)) {
     return { startIndex: 0, endIndex: sampleCount, rampDirection: 'unknown', evidence: 'The ramp channel is constant: the whole record is used.', segmentCount: 0 }
   }
-  const turns = turningPoints(smooth, turnFraction * span)
+  const centre = (b: number) => Math.min(sampleCount - 1, b * block + ((Math.min(sampleCount, (b + 1) * block) - b * block - 1) >> 1))
+  const blockOf = (i: number) => Math.min(blocks - 1, Math.floor(i / block))
+  const turns = turningPoints(smooth, turnFraction * span).map(centre)
   const bounds = [0, ...turns, sampleCount - 1]
   let best = { start: 0, end: sampleCount, length: -1 }
   for (let k = 0; k + 1 < bounds.length; k++) {
@@ -61,17 +68,21 @@ export function selectSweep(rampV: Float64Array | null, sampleCount: number, opt
     const end = k + 2 === bounds.length ? bounds[k + 1] + 1 : bounds[k + 1] - guardSamples
     if (end - start > best.length) best = { start, end, length: end - start }
   }
-  const rising = smooth[Math.min(best.end - 1, sampleCount - 1)] > smooth[best.start]
+  const rising = smooth[blockOf(Math.min(best.end - 1, sampleCount - 1))] > smooth[blockOf(best.start)]
   // A short reverse leg at either end of the record turns by less than the hysteresis: trim the segment to its
   // own extremes (the lowest point before it rises, the highest before it falls, for a rising ramp).
-  let lowIndex = best.start
-  let highIndex = best.start
-  for (let i = best.start; i < best.end; i++) {
-    const v = smooth[i]
+  const firstBlock = blockOf(best.start)
+  const lastBlock = blockOf(best.end - 1)
+  let lowBlock = firstBlock
+  let highBlock = firstBlock
+  for (let b = firstBlock; b <= lastBlock; b++) {
+    const v = smooth[b]
     if (!Number.isFinite(v)) continue
-    if (rising ? v < smooth[lowIndex] : v > smooth[lowIndex]) lowIndex = i
-    if (rising ? v > smooth[highIndex] : v < smooth[highIndex]) highIndex = i
+    if (rising ? v < smooth[lowBlock] : v > smooth[lowBlock]) lowBlock = b
+    if (rising ? v > smooth[highBlock] : v < smooth[highBlock]) highBlock = b
   }
+  const lowIndex = lowBlock === firstBlock ? best.start : centre(lowBlock)
+  const highIndex = highBlock === firstBlock ? best.start : centre(highBlock)
   if (highIndex < best.end - 1 - guardSamples) best.end = Math.max(best.start + 3, highIndex - guardSamples)
   if (lowIndex > best.start + guardSamples && lowIndex + guardSamples < best.end - 3) best.start = lowIndex + guardSamples
   best.length = best.end - best.start
@@ -105,10 +116,27 @@ function userRange(range: { startIndex: number; endIndex: number }, sampleCount:
   return { startIndex, endIndex, rampDirection, evidence: 'The sweep part was chosen by the user.', segmentCount: 0 }
 }
 
-/** Moving average over ~1 % of the record (NaN samples are skipped). */
-function smoothRamp(rampV: Float64Array): Float64Array {
+/** Mean of each block of `block` samples (NaN samples skipped; NaN for a block without a finite one). */
+function blockMeans(rampV: Float64Array, block: number): Float64Array {
   const n = rampV.length
-  const half = Math.max(1, Math.round(n / 200))
+  if (block === 1) return rampV
+  const out = new Float64Array(Math.ceil(n / block))
+  for (let b = 0; b < out.length; b++) {
+    let sum = 0
+    let count = 0
+    const end = Math.min(n, (b + 1) * block)
+    for (let i = b * block; i < end; i++) {
+      const v = rampV[i]
+      if (v - v === 0) { sum += v; count++ }
+    }
+    out[b] = count > 0 ? sum / count : NaN
+  }
+  return out
+}
+
+/** Centred moving average over 2·half + 1 points (NaN points are skipped). */
+function smoothRamp(rampV: Float64Array, half: number): Float64Array {
+  const n = rampV.length
   const out = new Float64Array(n)
   let sum = 0
   let count = 0
