@@ -20,6 +20,15 @@ export interface IdealSingleLens {
  */
 export function idealSingleLens(path: MatchingPath, intervalsMm: readonly [number, number][], samplesPerInterval = 400): IdealSingleLens | null {
   let best: IdealSingleLens | null = null
+  const consider = (zMm: number): void => {
+    const found = bestAtPlane(path, zMm)
+    if (best === null || found.coupling > best.coupling) best = { lens: { zMm, focalLengthMm: 1 / found.power }, coupling: found.coupling }
+  }
+  // Exact solutions first: planes where an axis and the mode have equal spot sizes, found as roots of a quadratic
+  // (more precise than maximising the flat top of the coupling).
+  for (const root of [...equalSpotPlanes(path, path.beam.x), ...equalSpotPlanes(path, path.beam.y)]) {
+    if (intervalsMm.some(([from, to]) => root >= from && root <= to)) consider(root)
+  }
   for (const [from, to] of intervalsMm) {
     if (!(to >= from)) continue
     const n = to > from ? samplesPerInterval : 1
@@ -43,13 +52,30 @@ export function idealSingleLens(path: MatchingPath, intervalsMm: readonly [numbe
       if (bestAtPlane(path, m1).coupling >= bestAtPlane(path, m2).coupling) hi = m2
       else lo = m1
     }
-    const zMm = (lo + hi) / 2
-    const found = bestAtPlane(path, zMm)
-    if (best === null || found.coupling > best.coupling) {
-      best = { lens: { zMm, focalLengthMm: 1 / found.power }, coupling: found.coupling }
-    }
+    consider((lo + hi) / 2)
   }
   return best
+}
+
+/**
+ * Planes where one beam axis and the mode have equal spot sizes: |q|²/Im q equal for both, i.e.
+ * ((z − z_b)² + z_Rb²)/z_Rb = ((z − z_t)² + z_Rt²)/z_Rt, a quadratic in z.
+ */
+function equalSpotPlanes(path: MatchingPath, axis: BeamAxis): number[] {
+  const zb = axis.waistPositionMm
+  const zRb = beamParameterAt(axis, path.beam.wavelengthNm, 0).im
+  const zt = path.cavityPlaneMm + path.target.waistFromEntranceMm
+  const zRt = path.target.rayleighRangeMm
+  const a = 1 / zRb - 1 / zRt
+  const b = (-2 * zb) / zRb + (2 * zt) / zRt
+  const c = (zb * zb) / zRb - (zt * zt) / zRt + zRb - zRt
+  if (Math.abs(a) < 1e-15 * (1 / zRb + 1 / zRt)) return b === 0 ? [] : [-c / b]
+  const disc = b * b - 4 * a * c
+  if (disc < 0) return []
+  const sq = Math.sqrt(disc)
+  // Numerically stable pair of roots.
+  const qq = -0.5 * (b + Math.sign(b || 1) * sq)
+  return qq === 0 ? [0] : [qq / a, c / qq]
 }
 
 /** Best lens power at one plane and the coupling it reaches (both axes; one spherical lens for both). */
