@@ -93,14 +93,14 @@ export function calibrateWithOrders(
     usable = usable.filter((_, i) => keep[i])
     periods = periods.filter((_, i) => keep[i])
     u = u.filter((_, i) => keep[i])
-    solution = solve(gouyAtBound ? gouyRad : null)
-    if (!gouyAtBound) {
-      gouyRad = hasTransverse && solution.length > degree + 1 ? solution[degree + 1] : predictedGouyRad
-      if (!Number.isFinite(gouyRad) || Math.abs(gouyRad - predictedGouyRad) > maxGouyShiftRad) {
-        gouyRad = Number.isFinite(gouyRad) ? predictedGouyRad + Math.sign(gouyRad - predictedGouyRad) * maxGouyShiftRad : predictedGouyRad
-        gouyAtBound = true
-        solution = solve(gouyRad)
-      }
+    // ψ is free again: an outlier may have been what pushed it to the bound.
+    solution = solve(null)
+    gouyRad = hasTransverse && solution.length > degree + 1 ? solution[degree + 1] : predictedGouyRad
+    gouyAtBound = false
+    if (!Number.isFinite(gouyRad) || Math.abs(gouyRad - predictedGouyRad) > maxGouyShiftRad) {
+      gouyRad = Number.isFinite(gouyRad) ? predictedGouyRad + Math.sign(gouyRad - predictedGouyRad) * maxGouyShiftRad : predictedGouyRad
+      gouyAtBound = true
+      solution = solve(gouyRad)
     }
   }
   const coefficients = solution.slice(0, degree + 1)
