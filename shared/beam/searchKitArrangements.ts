@@ -179,7 +179,7 @@ function scanAstigmatic(
   start: number,
   end: number,
 ): number {
-  let best = floor * floor
+  let best = floor < 0 ? -1 : floor * floor // squared: the loop compares (coupling / 4)²
   let bestAt = -1
   const xy = xIm * yIm
   for (let pb = start; pb < end; pb++) {

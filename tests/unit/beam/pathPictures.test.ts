@@ -47,22 +47,26 @@ describe('couplingMap', () => {
   const cavity = { wavelengthNm: lambdaNm, lengthMm: 100, roc1Mm: 250, roc2Mm: 250 }
   const path = { beam: circularBeam(0.45, -30), target: cavityEigenmodeBeam(cavity), cavityPlaneMm: 600 }
 
-  it('when mapped over both lens positions then each cell is the coupling of that arrangement and the best cell matches the kit search', () => {
-    const map = couplingMap(path, { focalLengthMm: 100 }, { focalLengthMm: 200 }, { aMm: [50, 250], bMm: [300, 500] }, 2)
-    expect(map.aZMm.length).toBe(101)
-    expect(map.coupling.length).toBe(101 * 101)
-    const i = 37
-    const j = 64
-    const direct = pathCoupling(path, [{ zMm: map.aZMm[i], focalLengthMm: 100 }, { zMm: map.bZMm[j], focalLengthMm: 200 }]).coupling
-    expect(map.coupling[i * map.bZMm.length + j]).toBeCloseTo(direct, 12)
-    const plan = planModeMatching(
-      { cavity, beam: path.beam, kit: [{ id: 'a', focalLengthMm: 100, count: 1 }, { id: 'b', focalLengthMm: 200, count: 1 }], table: { laserToCavityMm: 600, lensZonesMm: [[50, 250], [300, 500]], positionStepMm: 2 } },
-      { rankBy: 'coupling', maxArrangements: 50 },
-    )
-    const searched = plan.arrangements.find((a) => a.lenses.map((l) => l.id).join() === 'a,b')
-    expect(searched?.coupling).toBeCloseTo(map.best.coupling, 12)
-    expect(searched?.lenses.map((l) => l.zMm)).toEqual([map.best.aZMm, map.best.bZMm])
-  })
+  const astigmatic = { ...circularBeam(0.45, -30), y: { waistRadiusMm: 0.6, waistPositionMm: 20, m2: 1.1 } }
+  for (const [name, beam] of [['circular', circularBeam(0.45, -30)], ['astigmatic', astigmatic]] as const) {
+    it(`when mapped over both lens positions (${name} beam) then each cell is the coupling of that arrangement and the best cell matches the kit search`, () => {
+      const path = { beam, target: cavityEigenmodeBeam(cavity), cavityPlaneMm: 600 }
+      const map = couplingMap(path, { focalLengthMm: 100 }, { focalLengthMm: 200 }, { aMm: [50, 250], bMm: [300, 500] }, 2)
+      expect(map.aZMm.length).toBe(101)
+      expect(map.coupling.length).toBe(101 * 101)
+      const i = 37
+      const j = 64
+      const direct = pathCoupling(path, [{ zMm: map.aZMm[i], focalLengthMm: 100 }, { zMm: map.bZMm[j], focalLengthMm: 200 }]).coupling
+      expect(map.coupling[i * map.bZMm.length + j]).toBeCloseTo(direct, 12)
+      const plan = planModeMatching(
+        { cavity, beam, kit: [{ id: 'a', focalLengthMm: 100, count: 1 }, { id: 'b', focalLengthMm: 200, count: 1 }], table: { laserToCavityMm: 600, lensZonesMm: [[50, 250], [300, 500]], positionStepMm: 2 } },
+        { rankBy: 'coupling', maxArrangements: 50 },
+      )
+      const searched = plan.arrangements.find((a) => a.lenses.map((l) => l.id).join() === 'a,b')
+      expect(searched?.coupling).toBeCloseTo(map.best.coupling, 12)
+      expect(searched?.lenses.map((l) => l.zMm)).toEqual([map.best.aZMm, map.best.bZMm])
+    })
+  }
 
   it('when the lenses would stand closer than the spacing then the cell is empty (NaN)', () => {
     const map = couplingMap(path, { focalLengthMm: 100 }, { focalLengthMm: 200 }, { aMm: [100, 120], bMm: [100, 120] }, 5, { minSpacingMm: 10 })

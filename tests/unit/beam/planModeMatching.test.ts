@@ -109,6 +109,7 @@ describe('planModeMatching', () => {
     const plan = planModeMatching({ cavity, beam: astigmatic, kit, table }, { rankBy: 'coupling' })
     const best = plan.arrangements[0]
     expect(best.coupling).toBeLessThan(0.999)
+    expect(best.kind).toBe('two-lens')
     expect(pathCoupling(plan.path, best.lenses).coupling).toBeCloseTo(best.coupling, 12)
     expect(plan.warnings.map((w) => w.code)).toContain('astigmatic_beam')
   })
