@@ -1,25 +1,12 @@
 /** Data access for analyses. */
 import type { AnalysisOptions, AnalysisStatus } from '../../shared/api/cavitySchemas'
+import type { AnalysisRecord, HistoryRow } from '../../shared/api/tuningTypes'
 import type { CavityGeometry } from '../../shared/cavity'
 import type { AnalysisResult } from '../../shared/analysis/types'
 import type { Db } from '../db/knex'
 
-export interface AnalysisRecord {
-  id: string
-  traceId: string
-  cavityId: string
-  status: AnalysisStatus
-  options: AnalysisOptions
-  geometry: CavityGeometry
-  result: AnalysisResult | null
-  error: { code: string; message: string } | null
-  attempts: number
-  engineMs: number | null
-  requestedBy: number | null
-  createdAt: string
-  startedAt: string | null
-  finishedAt: string | null
-}
+export type { AnalysisRecord, HistoryRow }
+
 
 interface AnalysisRow {
   id: string
@@ -110,17 +97,6 @@ export async function finishAnalysis(
     .update({ ...update, finished_at: db.fn.now() })
 }
 
-export interface HistoryRow {
-  analysisId: string
-  traceId: string
-  createdAt: string
-  fileName: string
-  note: string
-  status: AnalysisStatus
-  fundamentalFraction: number | null
-  finesse: number | null
-  linewidthHz: number | null
-}
 
 /** A cavity's analyses, newest first, with their trace's note. */
 export async function listCavityHistory(db: Db, cavityId: string, options: { from?: Date; to?: Date; limit?: number } = {}): Promise<HistoryRow[]> {

@@ -4,17 +4,12 @@
  */
 import pg from 'pg'
 import type { Logger } from 'pino'
+import type { AnalysisEvent } from '../../shared/api/tuningTypes'
 import type { Db } from '../db/knex'
 
 const CHANNEL = 'cavitrace_events'
 
-export interface AnalysisEvent {
-  type: 'analysis'
-  cavityId: string
-  analysisId: string
-  traceId: string
-  status: 'queued' | 'running' | 'done' | 'failed'
-}
+export type { AnalysisEvent }
 
 export interface EventHub {
   publish(event: AnalysisEvent): Promise<void>

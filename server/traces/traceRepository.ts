@@ -1,16 +1,8 @@
 /** Data access for uploaded traces. The raw bytes are only loaded when asked for. */
+import type { TraceRecord } from '../../shared/api/tuningTypes'
 import type { Db } from '../db/knex'
 
-export interface TraceRecord {
-  id: string
-  cavityId: string
-  sha256: string
-  fileName: string
-  sizeBytes: number
-  note: string
-  uploadedBy: number | null
-  uploadedAt: string
-}
+export type { TraceRecord }
 
 interface TraceRow {
   id: string

@@ -7,6 +7,7 @@ import { createHash } from 'node:crypto'
 import { promisify } from 'node:util'
 import { gzip } from 'node:zlib'
 import type { AnalysisOptions } from '../../shared/api/cavitySchemas'
+import type { UploadOutcome } from '../../shared/api/tuningTypes'
 import { finishAnalysis, insertAnalysis, type AnalysisRecord } from '../analyses/analysisRepository'
 import { latestAnalysisOfTrace } from '../analyses/analysisService'
 import { geometryOf, getCavity } from '../cavities/cavityService'
@@ -29,12 +30,7 @@ export interface UploadedFile {
   bytes: Buffer
 }
 
-export interface UploadOutcome {
-  trace: TraceRecord
-  analysis: AnalysisRecord
-  /** False when the same file was already stored for this cavity. */
-  created: boolean
-}
+export type { UploadOutcome }
 
 /** Create an analysis of a stored trace with the cavity's current geometry, and queue it. */
 export async function queueAnalysis(context: UploadContext, trace: TraceRecord, options: AnalysisOptions, userId: number | null): Promise<AnalysisRecord> {

@@ -3,71 +3,17 @@
  * that JSON cannot carry live here too: the multipart upload (XMLHttpRequest, because fetch reports no
  * upload progress) and the raw trace download (bytes for the browser-side trace reader).
  */
-import type { AnalysisResult } from '../../shared/analysis/types'
 import type { AnalysisOptions, AnalysisStatus, Cavity, CavityInput, CavityPatch } from '../../shared/api/cavitySchemas'
-import type { CavityGeometry, CavityModel } from '../../shared/cavity'
+import type { AnalysisEvent, AnalysisRecord, HistoryRow, TraceRecord, UploadOutcome } from '../../shared/api/tuningTypes'
+import type { CavityModel } from '../../shared/cavity'
 import { ApiError, apiRequest } from './client'
 
-export type { AnalysisOptions, AnalysisStatus, Cavity, CavityInput, CavityPatch }
+export type { AnalysisEvent, AnalysisOptions, AnalysisRecord, AnalysisStatus, Cavity, CavityInput, CavityPatch, UploadOutcome }
 
 /** One row of `GET /api/cavities/:id/history`. */
-export interface CavityHistoryRow {
-  analysisId: string
-  traceId: string
-  createdAt: string
-  fileName: string
-  note: string
-  status: AnalysisStatus
-  fundamentalFraction: number | null
-  finesse: number | null
-  linewidthHz: number | null
-}
-
-export interface StoredTrace {
-  id: string
-  cavityId: string
-  sha256: string
-  fileName: string
-  sizeBytes: number
-  note: string
-  uploadedBy: number | null
-  uploadedAt: string
-}
-
-/** An analysis as `GET /api/analyses/:id` returns it. */
-export interface AnalysisRecord {
-  id: string
-  traceId: string
-  cavityId: string
-  status: AnalysisStatus
-  options: AnalysisOptions
-  /** The geometry this analysis used, kept even when the cavity is edited later. */
-  geometry: CavityGeometry
-  result: AnalysisResult | null
-  error: { code: string; message: string } | null
-  attempts: number
-  engineMs: number | null
-  createdAt: string
-  startedAt: string | null
-  finishedAt: string | null
-}
-
-/** One file's outcome in an upload answer. */
-export interface UploadOutcome {
-  trace: StoredTrace
-  analysis: AnalysisRecord
-  /** False when the same file was already stored: it links to that trace and its analysis. */
-  created: boolean
-}
-
-/** A status change pushed by `GET /api/cavities/:id/events`. */
-export interface AnalysisEvent {
-  type: 'analysis'
-  cavityId: string
-  analysisId: string
-  traceId: string
-  status: AnalysisStatus
-}
+export type CavityHistoryRow = HistoryRow
+/** A stored upload. */
+export type StoredTrace = TraceRecord
 
 const enc = encodeURIComponent
 

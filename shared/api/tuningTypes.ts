@@ -1,0 +1,68 @@
+/**
+ * Shapes the tuning-loop API answers with, shared by the server (which builds them) and the client
+ * (which reads them).
+ */
+import type { AnalysisResult } from '../analysis/types'
+import type { CavityGeometry } from '../cavity'
+import type { AnalysisOptions, AnalysisStatus } from './cavitySchemas'
+
+/** A stored upload (`GET /api/traces/:id`). The raw bytes are fetched separately. */
+export interface TraceRecord {
+  id: string
+  cavityId: string
+  sha256: string
+  fileName: string
+  sizeBytes: number
+  note: string
+  uploadedBy: number | null
+  uploadedAt: string
+}
+
+/** An analysis (`GET /api/analyses/:id`). */
+export interface AnalysisRecord {
+  id: string
+  traceId: string
+  cavityId: string
+  status: AnalysisStatus
+  options: AnalysisOptions
+  /** The geometry this analysis used, kept even when the cavity is edited later. */
+  geometry: CavityGeometry
+  result: AnalysisResult | null
+  error: { code: string; message: string } | null
+  attempts: number
+  engineMs: number | null
+  requestedBy: number | null
+  createdAt: string
+  startedAt: string | null
+  finishedAt: string | null
+}
+
+/** One row of `GET /api/cavities/:id/history`, newest first. */
+export interface HistoryRow {
+  analysisId: string
+  traceId: string
+  createdAt: string
+  fileName: string
+  note: string
+  status: AnalysisStatus
+  fundamentalFraction: number | null
+  finesse: number | null
+  linewidthHz: number | null
+}
+
+/** One file's outcome in an upload answer (`POST /api/cavities/:id/traces` → 202 `{ uploads }`). */
+export interface UploadOutcome {
+  trace: TraceRecord
+  analysis: AnalysisRecord
+  /** False when the same file was already stored for the cavity: it links to that trace and its analysis. */
+  created: boolean
+}
+
+/** A status change pushed by `GET /api/cavities/:id/events` (server-sent event `analysis`). */
+export interface AnalysisEvent {
+  type: 'analysis'
+  cavityId: string
+  analysisId: string
+  traceId: string
+  status: AnalysisStatus
+}
