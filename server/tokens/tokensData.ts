@@ -66,10 +66,13 @@ export async function revokeToken(db: Db, id: number): Promise<boolean> {
 
 /** The live token with this hash and its owner's id, or null. Marks it used. */
 export async function useTokenByHash(db: Db, hash: string): Promise<{ tokenId: number; userId: number } | null> {
-  const [row] = (await db('api_tokens')
-    .where({ token_hash: hash })
-    .whereNull('revoked_at')
-    .update({ last_used_at: db.fn.now() })
-    .returning(['id', 'user_id'])) as Array<{ id: number; user_id: number }>
-  return row ? { tokenId: row.id, userId: row.user_id } : null
+  const row = (await db('api_tokens').where({ token_hash: hash }).whereNull('revoked_at').first('id', 'user_id', 'last_used_at')) as
+    | { id: number; user_id: number; last_used_at: Date | null }
+    | undefined
+  if (!row) return null
+  // Record use at most once a minute: a script polling many times a second must not turn every read into a write.
+  if (!row.last_used_at || Date.now() - row.last_used_at.getTime() > 60_000) {
+    await db('api_tokens').where({ id: row.id }).update({ last_used_at: db.fn.now() })
+  }
+  return { tokenId: row.id, userId: row.user_id }
 }
