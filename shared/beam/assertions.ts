@@ -1,6 +1,6 @@
 import { EngineError } from '../errors'
 import { assertFiniteNumber, assertPositive } from '../cavity/assertions'
-import type { Beam, BeamAxis, PlacedLens } from './types'
+import type { Beam, BeamAxis, MatchingPath, PlacedLens } from './types'
 
 export { assertFiniteNumber, assertPositive }
 
@@ -56,4 +56,19 @@ export function assertLenses(lenses: readonly PlacedLens[]): void {
       throw new EngineError('invalid_lens', `lenses[${i}].focalLengthMm must be a finite, non-zero number of millimetres, got ${String(lens.focalLengthMm)}`)
     }
   })
+}
+
+/** Throws `invalid_argument` unless the path has a valid beam, a target mode of the same wavelength and a finite cavity plane. */
+export function assertMatchingPath(path: MatchingPath): void {
+  if (typeof path !== 'object' || path === null) throw new EngineError('invalid_argument', 'path must be an object with beam, target and cavityPlaneMm')
+  assertBeam(path.beam)
+  const target = path.target
+  if (typeof target !== 'object' || target === null) throw new EngineError('invalid_argument', 'path.target must be a target mode (see cavityEigenmodeBeam)')
+  assertPositive(target.waistRadiusMm, 'path.target.waistRadiusMm')
+  assertPositive(target.rayleighRangeMm, 'path.target.rayleighRangeMm')
+  assertFiniteNumber(target.waistFromEntranceMm, 'path.target.waistFromEntranceMm')
+  assertFiniteNumber(path.cavityPlaneMm, 'path.cavityPlaneMm')
+  if (Math.abs(target.wavelengthNm - path.beam.wavelengthNm) > 1e-6 * target.wavelengthNm) {
+    throw new EngineError('wavelength_mismatch', `The beam is at ${path.beam.wavelengthNm} nm but the target mode at ${target.wavelengthNm} nm`)
+  }
 }

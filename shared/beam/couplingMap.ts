@@ -1,4 +1,4 @@
-import { assertArgument, assertFiniteNumber, assertNonNegative, assertPositive } from './assertions'
+import { assertArgument, assertFiniteNumber, assertMatchingPath, assertNonNegative, assertPositive } from './assertions'
 import { twoLensCoupling } from './twoLensCoupling'
 import type { MatchingPath } from './types'
 
@@ -41,6 +41,7 @@ export function couplingMap(
   options: CouplingMapOptions = {},
 ): CouplingMap {
   const { minSpacingMm = 0 } = options
+  assertMatchingPath(path)
   assertPositive(stepMm, 'stepMm')
   assertNonNegative(minSpacingMm, 'minSpacingMm')
   for (const lens of [lensA, lensB]) {

@@ -1,4 +1,4 @@
-import { assertArgument, assertLenses, assertPositive } from './assertions'
+import { assertArgument, assertLenses, assertMatchingPath, assertPositive } from './assertions'
 import { pathCoupling } from './pathCoupling'
 import type { MatchingPath, PlacedLens } from './types'
 
@@ -25,6 +25,7 @@ export interface ArrangementTolerance {
  * (1966); overlap as in `coaxialCoupling`.
  */
 export function lensPositionTolerance(path: MatchingPath, lenses: readonly PlacedLens[], stepMm = 1): ArrangementTolerance {
+  assertMatchingPath(path)
   assertLenses(lenses)
   assertPositive(stepMm, 'stepMm')
   assertArgument(lenses.length <= 6, 'lensPositionTolerance handles at most 6 lenses')

@@ -1,3 +1,4 @@
+import { assertLenses, assertMatchingPath } from './assertions'
 import { beamParameterAt } from './beamParameterAt'
 import { coaxialCoupling } from './coaxialCoupling'
 import { propagateBeamParameter } from './propagateBeamParameter'
@@ -14,9 +15,11 @@ export interface PathCoupling {
 /**
  * Coupling of the path's beam, passed through `lenses`, into the target mode at the cavity entrance plane
  * (aligned beams; size and position mismatch only). Source: ABCD law, Kogelnik & Li, Appl. Opt. 5, 1550 (1966);
- * overlap as in `coaxialCoupling`. Inputs are trusted (validated by the public callers).
+ * overlap as in `coaxialCoupling`.
  */
 export function pathCoupling(path: MatchingPath, lenses: readonly PlacedLens[]): PathCoupling {
+  assertMatchingPath(path)
+  assertLenses(lenses)
   const { beam, target, cavityPlaneMm } = path
   const start = Math.min(0, ...lenses.map((l) => l.zMm)) - 1
   const tRe = -target.waistFromEntranceMm

@@ -108,3 +108,14 @@ describe('mismatchFamily', () => {
     expect(engineErrorOf(() => mismatchFamily(0.3, mode, { includeHigherOrders: true })).message).toMatch(/0\.25/)
   })
 })
+
+describe('path checks', () => {
+  it('when the path is malformed then pathCoupling and couplingMap name the problem', () => {
+    const target = cavityEigenmodeBeam({ wavelengthNm: lambdaNm, lengthMm: 100, roc1Mm: 250, roc2Mm: 250 })
+    const beam = circularBeam(0.45, 0)
+    expect(engineErrorOf(() => pathCoupling({ beam, target, cavityPlaneMm: NaN }, [])).message).toMatch(/cavityPlaneMm/)
+    expect(engineErrorOf(() => pathCoupling({ beam: circularBeam(0.45, 0, 780), target, cavityPlaneMm: 600 }, [])).code).toBe('wavelength_mismatch')
+    expect(engineErrorOf(() => pathCoupling({ beam, target, cavityPlaneMm: 600 }, [{ zMm: 100, focalLengthMm: 0 }])).code).toBe('invalid_lens')
+    expect(engineErrorOf(() => couplingMap({ beam, target, cavityPlaneMm: 600 }, { focalLengthMm: 100 }, { focalLengthMm: 50 }, { aMm: [0, 10], bMm: [20, 10] })).message).toMatch(/ranges\.bMm/)
+  })
+})
