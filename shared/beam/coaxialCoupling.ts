@@ -9,5 +9,6 @@
 export function coaxialCoupling(q1Re: number, q1Im: number, q2Re: number, q2Im: number): number {
   const dRe = q1Re - q2Re
   const sIm = q1Im + q2Im
-  return (4 * q1Im * q2Im) / (dRe * dRe + sIm * sIm)
+  // ≤ 1 in exact arithmetic; the clamp only removes rounding (1 + 2e-16).
+  return Math.min(1, (4 * q1Im * q2Im) / (dRe * dRe + sIm * sIm))
 }

@@ -106,5 +106,5 @@ export function bestAtPlane(path: MatchingPath, zMm: number): { power: number; c
     else lo = m1
   }
   const power = (lo + hi) / 2
-  return { power, coupling: total(power) }
+  return { power, coupling: Math.min(1, total(power)) }
 }

@@ -6,7 +6,10 @@ export interface LensTolerance {
   id?: string
   zMm: number
   focalLengthMm: number
-  /** Coupling lost (fraction, ≥ 0 when at an optimum) when this lens alone moves by −step / +step. */
+  /**
+   * Coupling lost (fraction) when this lens alone moves by −step / +step; ≥ 0 at an optimum, negative when moving
+   * that way would help (for instance past the edge of a lens zone, where the grid optimum sits).
+   */
   lossMinus: number
   lossPlus: number
 }

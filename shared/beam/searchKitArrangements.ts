@@ -78,7 +78,7 @@ export function searchKitArrangements(
         bestP = p
       }
     }
-    if (P > 0) single.push({ lensIndices: [j], zMm: [positions[bestP]], coupling: Math.sqrt(best) })
+    if (P > 0) single.push({ lensIndices: [j], zMm: [positions[bestP]], coupling: Math.min(1, Math.sqrt(best)) })
   }
 
   // First position index that keeps the spacing, per first-lens position.
@@ -124,7 +124,7 @@ export function searchKitArrangements(
     pairs.push({
       lensIndices: [Math.floor(pair / K), pair % K],
       zMm: [positions[bestFirst[pair]], positions[bestSecond[pair]]],
-      coupling: 4 * bestValue[pair], // 4 Im q1 Im q2 / |q1* − q2|² (the factor 4 was left out of the loop)
+      coupling: Math.min(1, 4 * bestValue[pair]), // 4 Im q1 Im q2 / |q1* − q2|² (the factor 4 was left out of the loop)
     })
   }
   return { single, pairs, evaluated: { oneLens: K * P, twoLens } }

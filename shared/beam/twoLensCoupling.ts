@@ -36,5 +36,5 @@ export function twoLensCoupling(path: MatchingPath, powerA: number, zA: number, 
     const sIm = im + tIm
     product *= (4 * im * tIm) / (sRe * sRe + sIm * sIm)
   }
-  return Math.sqrt(product)
+  return Math.min(1, Math.sqrt(product))
 }

@@ -100,6 +100,8 @@ describe('planModeMatching', () => {
   it('when a lens is in the kit once then it is never used twice, and when twice then it may be', () => {
     const single = planModeMatching({ cavity, beam, kit: [{ id: 'F', focalLengthMm: 150, count: 1 }], table }, { maxArrangements: 50 })
     expect(single.arrangements.every((a) => a.lenses.length === 1)).toBe(true)
+    // The one-lens scan and the plain reference propagation agree.
+    for (const arrangement of single.arrangements) expect(pathCoupling(single.path, arrangement.lenses).coupling).toBeCloseTo(arrangement.coupling, 12)
     const double = planModeMatching({ cavity, beam, kit: [{ id: 'F', focalLengthMm: 150, count: 2 }], table }, { maxArrangements: 50 })
     expect(double.arrangements.some((a) => a.lenses.length === 2)).toBe(true)
   })
