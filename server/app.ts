@@ -10,6 +10,7 @@ import express, { type Express } from 'express'
 import helmet from 'helmet'
 import type { Logger } from 'pino'
 import { pinoHttp } from 'pino-http'
+import { alertRoutes } from './alerts/alertRoutes'
 import { analysisRoutes } from './analyses/analysisRoutes'
 import { auditRoutes } from './audit/auditRoutes'
 import type { AccountsContext } from './auth/accountsContext'
@@ -25,7 +26,10 @@ import type { EventHub } from './jobs/eventHub'
 import { traceRoutes } from './traces/traceRoutes'
 import { apiNotFound, errorHandler } from './http/errors'
 import { invitationsRoutes } from './invitations/invitationsRoutes'
+import { logbookRoutes } from './logbook/logbookRoutes'
 import { outboxRoutes } from './mail/outboxRoutes'
+import { notificationRoutes } from './notifications/notificationRoutes'
+import { overviewRoutes } from './overview/overviewRoutes'
 import { tokensRoutes } from './tokens/tokensRoutes'
 import { usersRoutes } from './users/usersRoutes'
 
@@ -80,7 +84,12 @@ export function createApp(context: AppContext): Express {
   api.use(auditRoutes(db))
   api.use(cavityRoutes(context))
   api.use(traceRoutes(context))
+  // Before the analysis routes: /analyses/compare must not be read as /analyses/:id.
+  api.use(overviewRoutes(context))
   api.use(analysisRoutes(context))
+  api.use(logbookRoutes(context))
+  api.use(alertRoutes(context))
+  api.use(notificationRoutes(context))
   if (mailCaptureOn(config)) api.use(outboxRoutes(db))
   api.use(apiNotFound)
   app.use('/api', api)

@@ -4,6 +4,7 @@
 import type { Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import pino, { type Logger } from 'pino'
+import { startDigestSchedule, type DigestSchedule } from './alerts/digestSchedule'
 import { createApp } from './app'
 import { bootstrapAdmin } from './auth/bootstrapAdmin'
 import { sessionSecretSource } from './auth/sessionSecret'
@@ -12,6 +13,7 @@ import { createDb, type Db } from './db/knex'
 import { startAnalysisService, type AnalysisService } from './jobs/startAnalysisService'
 import { startCaptureSmtp, type CaptureSmtp } from './mail/captureSmtp'
 import { createMailer, type Mailer } from './mail/mailer'
+import { startAlertMailDispatcher, type AlertMailDispatcher } from './notifications/alertMailDispatcher'
 
 export interface RunningServer {
   /** Base URL, e.g. http://127.0.0.1:3000 */
@@ -24,6 +26,10 @@ export interface RunningServer {
   mailCapturePort?: number
   /** The analysis queue, worker threads and event hub of this process. */
   analysis: AnalysisService
+  /** Sends the e-mail of alert notifications (polls; `drain()` sends what waits now). */
+  alertMail: AlertMailDispatcher
+  /** The weekly digest job (pg-boss cron, Mondays 07:00 UTC). */
+  digest: DigestSchedule
   /** Stop accepting connections, finish open requests, close the database pool. */
   stop(): Promise<void>
 }
@@ -43,6 +49,8 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
   let listeningUrl = ''
   const analysis = await startAnalysisService(config, { db, logger, threads: config.WORKER_THREADS })
   const app = createApp({ config, db, logger, mailer, queue: analysis.queue, events: analysis.events, sessionSecret: sessionSecretSource(config, db, logger), publicUrl: () => publicBaseUrl(config, listeningUrl) })
+  const alertMail = startAlertMailDispatcher({ db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) })
+  const digest = await startDigestSchedule({ databaseUrl: config.DATABASE_URL, db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) })
 
   const server = await new Promise<Server>((resolve, reject) => {
     const listening = app.listen(config.PORT, config.HOST)
@@ -51,6 +59,8 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
       reject(error.code === 'EADDRINUSE' ? new PortInUseError(config.HOST, config.PORT) : error)
     })
   }).catch(async (error: unknown) => {
+    await digest.stop()
+    await alertMail.stop()
     await analysis.stop()
     await capture?.stop()
     await db.destroy()
@@ -75,6 +85,8 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
     mailer,
     mailCapturePort: capture?.port,
     analysis,
+    alertMail,
+    digest,
     stop() {
       stopping ??= (async () => {
         await new Promise<void>((resolve) => {
@@ -83,6 +95,8 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
           // Long-lived connections (event streams) must not hold the shutdown forever.
           setTimeout(() => server.closeAllConnections(), 5000).unref()
         })
+        await digest.stop()
+        await alertMail.stop()
         await analysis.stop()
         await mailer.settle()
         await capture?.stop()

@@ -3,6 +3,7 @@
  * announce it. Bad input ends as a failed analysis (the trace stays); a crash throws so the queue retries.
  */
 import type { Logger } from 'pino'
+import { checkAlertsSafely } from '../alerts/checkAlerts'
 import { finishAnalysis, markAnalysisRunning } from '../analyses/analysisRepository'
 import type { Db } from '../db/knex'
 import { readTraceContent } from '../traces/traceRepository'
@@ -48,6 +49,7 @@ export async function runAnalysisJob(analysisId: string, context: JobContext): P
   }
   if (outcome.ok) {
     await finishAnalysis(db, analysisId, { result: outcome.result, engineMs: outcome.milliseconds })
+    await checkAlertsSafely(analysisId, { db, logger })
     await announce('done')
   } else {
     await finishAnalysis(db, analysisId, { error: outcome.error })

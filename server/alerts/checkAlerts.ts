@@ -1,0 +1,106 @@
+/**
+ * After an analysis is stored: judge it against its cavity's rules and, when a rule goes into breach,
+ * notify the cavity's watchers once (in-app, and an e-mail that the alert mail dispatcher sends). The
+ * breach state is kept per cavity and rule, so an ongoing breach is announced only once; a reading
+ * that meets the rule again clears it (watchers see that in-app only), and a later breach is announced anew.
+ */
+import type { Logger } from 'pino'
+import { alertKinds, type AlertKind } from '../../shared/api/alertSchemas'
+import type { Db } from '../db/knex'
+import { insertNotifications, type NewNotification } from '../notifications/notificationRepository'
+import { describeRuleChange, type RuleChange } from './alertMessages'
+import { activeWatchers, lockAlertState, setAlertState } from './alertRepository'
+import { judgeAlerts } from './judgeAlerts'
+
+/** The finesse median needs a few earlier readings to mean anything (common practice, not a published rule). */
+export const MIN_MEDIAN_READINGS = 3
+export const MEDIAN_WINDOW_DAYS = 30
+
+export interface AlertOutcome {
+  breaches: AlertKind[]
+  recoveries: AlertKind[]
+  /** Why nothing was judged, when nothing was. */
+  skipped?: 'not_done' | 'archived' | 'superseded'
+}
+
+interface AnalysisFacts {
+  id: string
+  cavity_id: string
+  status: string
+  created_at: Date
+  fundamental_fraction: number | null
+  finesse: number | null
+  name: string
+  archived: boolean
+  target_fundamental_fraction: number | null
+  finesse_drop_percent: number | null
+}
+
+/** Median finesse of the cavity's done analyses in the window before `at`, other than `exceptId`; null with too few. */
+async function recentMedianFinesse(db: Db, cavityId: string, at: Date, exceptId: string): Promise<number | null> {
+  const result = await db.raw<{ rows: Array<{ median: number | null; count: string }> }>(
+    `select percentile_cont(0.5) within group (order by finesse) as median, count(*) as count from analyses
+      where cavity_id = ? and status = 'done' and finesse is not null and id <> ?
+        and created_at <= ? and created_at > ?::timestamptz - make_interval(days => ?)`,
+    [cavityId, exceptId, at, at, MEDIAN_WINDOW_DAYS],
+  )
+  const row = result.rows[0]
+  return row && Number(row.count) >= MIN_MEDIAN_READINGS ? row.median : null
+}
+
+export async function checkAlertsAfterAnalysis(db: Db, analysisId: string): Promise<AlertOutcome> {
+  const facts = (await db('analyses as a')
+    .join('cavities as c', 'c.id', 'a.cavity_id')
+    .where('a.id', analysisId)
+    .first('a.id', 'a.cavity_id', 'a.status', 'a.created_at', 'a.fundamental_fraction', 'a.finesse', 'c.name', 'c.archived', 'c.target_fundamental_fraction', 'c.finesse_drop_percent')) as
+    | AnalysisFacts
+    | undefined
+  if (!facts || facts.status !== 'done') return { breaches: [], recoveries: [], skipped: 'not_done' }
+  if (facts.archived) return { breaches: [], recoveries: [], skipped: 'archived' }
+  // Analyses can finish out of order; a newer reading already decided the state.
+  const newer = await db('analyses').where({ cavity_id: facts.cavity_id, status: 'done' }).andWhere('created_at', '>', facts.created_at).first('id')
+  if (newer) return { breaches: [], recoveries: [], skipped: 'superseded' }
+
+  const settings = { targetFundamentalFraction: facts.target_fundamental_fraction, finesseDropPercent: facts.finesse_drop_percent }
+  const medianFinesse = settings.finesseDropPercent === null ? null : await recentMedianFinesse(db, facts.cavity_id, facts.created_at, facts.id)
+  const verdicts = judgeAlerts({ fundamentalFraction: facts.fundamental_fraction, finesse: facts.finesse, settings, medianFinesse })
+
+  return db.transaction(async (trx) => {
+    const changes: RuleChange[] = []
+    for (const kind of alertKinds) {
+      const verdict = verdicts[kind]
+      if (verdict === 'off' || verdict === 'unknown') continue
+      const state = await lockAlertState(trx, facts.cavity_id, kind)
+      if (verdict.breached === state.breached) continue
+      await setAlertState(trx, facts.cavity_id, kind, { breached: verdict.breached, since: verdict.breached ? facts.created_at : null, analysisId: facts.id })
+      changes.push({ kind, ...verdict, ...(kind === 'finesse_drop' ? { medianFinesse: medianFinesse ?? undefined, dropPercent: settings.finesseDropPercent ?? undefined } : {}) })
+    }
+    if (changes.length > 0) {
+      const watchers = await activeWatchers(trx, facts.cavity_id)
+      const notifications: NewNotification[] = watchers.flatMap((watcher) =>
+        changes.map((change) => ({
+          userId: watcher.id,
+          cavityId: facts.cavity_id,
+          analysisId: facts.id,
+          kind: change.breached ? change.kind : (`${change.kind}_recovered` as const),
+          ...describeRuleChange(facts.name, change),
+          details: { value: change.value, threshold: change.threshold, ...(change.medianFinesse === undefined ? {} : { medianFinesse: change.medianFinesse, dropPercent: change.dropPercent }) },
+          // Only a new breach is e-mailed; a recovery is news, not an alarm.
+          mail: change.breached,
+        })),
+      )
+      await insertNotifications(trx, notifications)
+    }
+    return { breaches: changes.filter((change) => change.breached).map((change) => change.kind), recoveries: changes.filter((change) => !change.breached).map((change) => change.kind) }
+  })
+}
+
+/** For the analysis job: never throws (an alert problem must not fail or retry the analysis), logs instead. */
+export async function checkAlertsSafely(analysisId: string, context: { db: Db; logger: Logger }): Promise<void> {
+  try {
+    const outcome = await checkAlertsAfterAnalysis(context.db, analysisId)
+    if (outcome.breaches.length > 0 || outcome.recoveries.length > 0) context.logger.info({ analysisId, ...outcome }, 'alert state changed')
+  } catch (error) {
+    context.logger.error({ err: error, analysisId }, 'could not check the alerts of an analysis')
+  }
+}

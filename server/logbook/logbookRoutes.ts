@@ -1,0 +1,91 @@
+/**
+ * Maintenance-log routes. Everyone signed in reads; technicians, leads and admins write
+ * (`logbook.write`); an entry is changed or deleted by its author, a lead or an admin.
+ *
+ * GET    /api/log-kinds                      → { kinds: LogKind[] }            ({ key, label, builtIn }, in display order)
+ * POST   /api/log-kinds { label }            → 201 { kind }                    (cavities.write: leads, admins; 409 kind_exists)
+ * GET    /api/cavities/:id/log-entries?q&kind&from&to&limit
+ *                                            → { cavityId, entries: LogEntry[] } newest first; `q` searches the text
+ *                                              (case-insensitive), `kind` is one key or several comma-separated, from/to
+ *                                              bound `occurredAt` (ISO 8601, inclusive)
+ * POST   /api/cavities/:id/log-entries { occurredAt?, kind, text?, traceIds? }
+ *                                            → 201 { entry }                   (traceIds: traces already stored for this cavity)
+ * GET    /api/log-entries/:id                → { entry }
+ * PATCH  /api/log-entries/:id { occurredAt?, kind?, text?, traceIds? } → { entry }  (traceIds replaces the links)
+ * DELETE /api/log-entries/:id                → 204                             (the traces themselves stay)
+ * POST   /api/log-entries/:id/traces  multipart `file` (one or more), optional field `note`
+ *                                            → 202 { entry, uploads }          (uploads as from POST /api/cavities/:id/traces)
+ *
+ * LogEntry = { id, cavityId, occurredAt, author: { id, name } | null, kind, kindLabel, text,
+ *   traces: [{ id, fileName, note, uploadedAt, analysis: { id, status, fundamentalFraction } | null }],
+ *   beforeAfter: { before: Figures | null, after: Figures | null,
+ *                  change: { fundamentalFraction, finesse, linewidthHz } (after − before, null if a side is missing) },
+ *   createdAt, updatedAt }
+ * Figures = { analysisId, createdAt, fundamentalFraction, finesse, linewidthHz }: the nearest done analysis of the
+ * cavity strictly before / after `occurredAt` (by the analysis time the history uses).
+ */
+import { Router, type RequestHandler } from 'express'
+import multer from 'multer'
+import { logEntryInputSchema, logEntryPatchSchema, logEntryQuerySchema, logKindInputSchema } from '../../shared/api/logbookSchemas'
+import { traceUploadFieldsSchema } from '../../shared/api/cavitySchemas'
+import { requireActor } from '../auth/actor'
+import { requirePermission } from '../auth/requirePermission'
+import type { AppContext } from '../app'
+import { parseId } from '../cavities/cavityRoutes'
+import { HttpError } from '../http/errors'
+import { addLogKind, createLogEntry, editLogEntry, getLogEntry, listLogEntries, listLogKinds, removeLogEntry, uploadEntryTraces } from './logbookService'
+
+const MAX_FILES = 20
+
+export function logbookRoutes(context: AppContext): Router {
+  const { db, config } = context
+  const router = Router()
+  const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: Math.round(config.UPLOAD_LIMIT_MB * 1024 * 1024), files: MAX_FILES, fields: 10 } }).array('file', MAX_FILES)
+  const receiveFiles: RequestHandler = (req, res, next) => {
+    upload(req, res, (error: unknown) => {
+      if (!(error instanceof multer.MulterError)) return next(error)
+      if (error.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'file_too_large', `The file is larger than the upload limit of ${config.UPLOAD_LIMIT_MB} MB.`))
+      next(new HttpError(400, 'bad_upload', `The upload was refused: ${error.message} (send files in the multipart field "file").`))
+    })
+  }
+
+  router.get('/log-kinds', requirePermission('lab.read'), async (_req, res) => {
+    res.json({ kinds: await listLogKinds(db) })
+  })
+
+  router.post('/log-kinds', requirePermission('cavities.write'), async (req, res) => {
+    res.status(201).json({ kind: await addLogKind(db, logKindInputSchema.parse(req.body ?? {}), requireActor(req)) })
+  })
+
+  router.get('/cavities/:id/log-entries', requirePermission('lab.read'), async (req, res) => {
+    const cavityId = parseId(req.params.id, 'cavity')
+    res.json({ cavityId, entries: await listLogEntries(db, cavityId, logEntryQuerySchema.parse(req.query)) })
+  })
+
+  router.post('/cavities/:id/log-entries', requirePermission('logbook.write'), async (req, res) => {
+    const entry = await createLogEntry(db, parseId(req.params.id, 'cavity'), logEntryInputSchema.parse(req.body ?? {}), requireActor(req))
+    res.status(201).json({ entry })
+  })
+
+  router.get('/log-entries/:id', requirePermission('lab.read'), async (req, res) => {
+    res.json({ entry: await getLogEntry(db, parseId(req.params.id, 'log_entry')) })
+  })
+
+  router.patch('/log-entries/:id', requirePermission('logbook.write'), async (req, res) => {
+    res.json({ entry: await editLogEntry(db, parseId(req.params.id, 'log_entry'), logEntryPatchSchema.parse(req.body ?? {}), requireActor(req)) })
+  })
+
+  router.delete('/log-entries/:id', requirePermission('logbook.write'), async (req, res) => {
+    await removeLogEntry(db, parseId(req.params.id, 'log_entry'), requireActor(req))
+    res.status(204).end()
+  })
+
+  router.post('/log-entries/:id/traces', requirePermission('logbook.write'), receiveFiles, async (req, res) => {
+    const id = parseId(req.params.id, 'log_entry')
+    const { note } = traceUploadFieldsSchema.parse(req.body ?? {})
+    const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((file) => ({ fileName: file.originalname || 'trace.csv', bytes: file.buffer }))
+    res.status(202).json(await uploadEntryTraces(context, id, files, note, requireActor(req)))
+  })
+
+  return router
+}

@@ -1,0 +1,72 @@
+/** Shapes of the overview and comparison answers (`GET /api/overview`, `GET /api/analyses/compare`). */
+import type { AlertKind } from './alertSchemas'
+
+export type TargetStatus = 'met' | 'below' | 'none'
+
+export interface SparkPoint {
+  /** When the analysis was made (ISO 8601). */
+  t: string
+  fundamentalFraction: number
+}
+
+export interface OverviewRow {
+  cavityId: string
+  name: string
+  location: string
+  wavelengthNm: number
+  latest: { analysisId: string; createdAt: string; fundamentalFraction: number | null; finesse: number | null; linewidthHz: number | null } | null
+  /** Latest fraction − the fraction 30 days ago (see the overview routes for the rule); null without two points. */
+  fractionChange30d: number | null
+  /** Done analyses of the last 30 days, oldest first. */
+  sparkline: SparkPoint[]
+  targetFundamentalFraction: number | null
+  targetStatus: TargetStatus
+  finesseDropPercent: number | null
+  /** Rules in breach right now. */
+  activeAlerts: AlertKind[]
+  lastMaintenance: { entryId: string; occurredAt: string; kind: string; kindLabel: string } | null
+  watchedByMe: boolean
+}
+
+export interface Overview {
+  generatedAt: string
+  windowDays: number
+  cavities: OverviewRow[]
+}
+
+/** The figures of one analysis in a comparison. */
+export interface ComparedAnalysis {
+  analysisId: string
+  cavityId: string
+  cavityName: string
+  traceId: string
+  fileName: string
+  note: string
+  createdAt: string
+  fundamentalFraction: number
+  finesse: number | null
+  linewidthHz: number | null
+  fsrHz: number
+  fsrSeconds: number | null
+  misalignmentShare: number
+  mismatchShare: number
+  /** Carrier power share per transverse order, keyed "0", "1", … */
+  orders: Record<string, number>
+}
+
+export interface Comparison {
+  a: ComparedAnalysis
+  b: ComparedAnalysis
+  /** b − a for each figure (null when either is missing); `relative` is (b − a) / a. */
+  difference: {
+    fundamentalFraction: number
+    finesse: number | null
+    linewidthHz: number | null
+    fsrHz: number
+    misalignmentShare: number
+    mismatchShare: number
+    /** Per order present in either; a missing order counts as 0. */
+    orders: Record<string, number>
+    relative: { finesse: number | null; linewidthHz: number | null }
+  }
+}
