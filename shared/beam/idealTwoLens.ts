@@ -77,7 +77,37 @@ export function idealTwoLens(
     )
     if (!similar) chosen.push(c)
   }
-  return chosen
+  // An astigmatic beam has no exact match with spherical lenses: polish each chosen pair's focal lengths so the
+  // product of the x and y couplings is as high as those two positions allow.
+  return axes.length === 1 ? chosen : chosen.map((c) => polish(path, c, toleranceMm))
+}
+
+/** Nested golden-section search over the two lens powers (±30 % around the per-axis solution), positions fixed. */
+function polish(path: MatchingPath, c: IdealTwoLens, toleranceMm: number): IdealTwoLens {
+  const [a, b] = c.lenses
+  const bestB = (pA: number): number => goldenMax((pB) => twoLensCoupling(path, pA, a.zMm, pB, b.zMm), 1 / b.focalLengthMm)
+  const pA = goldenMax((p) => twoLensCoupling(path, p, a.zMm, bestB(p), b.zMm), 1 / a.focalLengthMm)
+  const pB = bestB(pA)
+  const coupling = twoLensCoupling(path, pA, a.zMm, pB, b.zMm)
+  if (!(coupling > c.coupling)) return c
+  let worst = coupling
+  for (let da = -1; da <= 1; da++) {
+    for (let db = -1; db <= 1; db++) worst = Math.min(worst, twoLensCoupling(path, pA, a.zMm + da * toleranceMm, pB, b.zMm + db * toleranceMm))
+  }
+  return { lenses: [{ zMm: a.zMm, focalLengthMm: 1 / pA }, { zMm: b.zMm, focalLengthMm: 1 / pB }], coupling, worstCoupling: worst }
+}
+
+function goldenMax(f: (x: number) => number, center: number): number {
+  let lo = center - 0.3 * Math.abs(center)
+  let hi = center + 0.3 * Math.abs(center)
+  const g = (Math.sqrt(5) - 1) / 2
+  for (let it = 0; it < 60; it++) {
+    const m1 = hi - g * (hi - lo)
+    const m2 = lo + g * (hi - lo)
+    if (f(m1) >= f(m2)) hi = m2
+    else lo = m1
+  }
+  return (lo + hi) / 2
 }
 
 /** Better first: higher coupling within tolerance, then higher coupling. */

@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest'
 import {
   applyAbcd,
+  beamParameterAt,
   cavityEigenmodeBeam,
+  coaxialCoupling,
   composeMatrices,
   freeSpaceMatrix,
   invertMatrix,
@@ -114,6 +116,27 @@ describe('planModeMatching', () => {
     expect(best.kind).toBe('two-lens')
     expect(pathCoupling(plan.path, best.lenses).coupling).toBeCloseTo(best.coupling, 12)
     expect(plan.warnings.map((w) => w.code)).toContain('astigmatic_beam')
+  })
+
+  it('when the beam is astigmatic then the ideal lenses reach the limit spherical lenses allow', () => {
+    // With tanh(d/2) = |q1 − q2| / |q1 − q2*| (the hyperbolic distance of the q half-plane; 1 − η = tanh²(d/2) is the
+    // OPTICS-CHECKS §2(e) q form), the best any spherical system can do is to put the mode half-way between the two
+    // axes: η = 1 / cosh²(d/4) (derived here; lens systems are isometries of that plane).
+    const astigmatic: Beam = { wavelengthNm: 1064, x: { waistRadiusMm: 0.45, waistPositionMm: -30, m2: 1 }, y: { waistRadiusMm: 0.55, waistPositionMm: 10, m2: 1.1 } }
+    const plan = planModeMatching({ cavity, beam: astigmatic, kit, table })
+    const qx = beamParameterAt(astigmatic.x, 1064, 0)
+    const qy = beamParameterAt(astigmatic.y, 1064, 0)
+    const halfDistance = Math.acosh(1 / Math.sqrt(coaxialCoupling(qx.re, qx.im, qy.re, qy.im)))
+    const limit = 1 / Math.cosh(halfDistance / 2) ** 2
+    // One free lens on a continuous position reaches the limit; two free lenses at the coarse grid positions of the
+    // ideal search come within 1e-4 of it.
+    expect(plan.ideal.singleLens!.coupling).toBeGreaterThan(limit - 1e-9)
+    expect(plan.ideal.singleLens!.coupling).toBeLessThanOrEqual(limit + 1e-12)
+    for (const solution of plan.ideal.twoLens) {
+      expect(solution.coupling).toBeLessThanOrEqual(limit + 1e-12)
+      expect(solution.coupling).toBeGreaterThan(limit - 1e-4)
+    }
+    expect(Math.max(...plan.arrangements.map((a) => a.coupling))).toBeLessThanOrEqual(limit + 1e-12)
   })
 
   it('when the beam has M² > 1 then a warning says the couplings are for the embedded Gaussian', () => {
