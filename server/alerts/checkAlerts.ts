@@ -36,13 +36,14 @@ interface AnalysisFacts {
   finesse_drop_percent: number | null
 }
 
-/** Median finesse of the cavity's done analyses in the window before `at`, other than `exceptId`; null with too few. */
-async function recentMedianFinesse(db: Db, cavityId: string, at: Date, exceptId: string): Promise<number | null> {
+/** Median finesse of the cavity's done analyses in the window before analysis `analysisId`; null with too few. */
+async function recentMedianFinesse(db: Db, cavityId: string, analysisId: string): Promise<number | null> {
   const result = await db.raw<{ rows: Array<{ median: number | null; count: string }> }>(
-    `select percentile_cont(0.5) within group (order by finesse) as median, count(*) as count from analyses
+    `with this as (select created_at from analyses where id = ?)
+     select percentile_cont(0.5) within group (order by finesse) as median, count(*) as count from analyses, this
       where cavity_id = ? and status = 'done' and finesse is not null and id <> ?
-        and created_at <= ? and created_at > ?::timestamptz - make_interval(days => ?)`,
-    [cavityId, exceptId, at, at, MEDIAN_WINDOW_DAYS],
+        and analyses.created_at <= this.created_at and analyses.created_at > this.created_at - make_interval(days => ?)`,
+    [analysisId, cavityId, analysisId, MEDIAN_WINDOW_DAYS],
   )
   const row = result.rows[0]
   return row && Number(row.count) >= MIN_MEDIAN_READINGS ? row.median : null
@@ -58,11 +59,15 @@ export async function checkAlertsAfterAnalysis(db: Db, analysisId: string): Prom
   if (!facts || facts.status !== 'done') return { breaches: [], recoveries: [], skipped: 'not_done' }
   if (facts.archived) return { breaches: [], recoveries: [], skipped: 'archived' }
   // Analyses can finish out of order; a newer reading already decided the state.
-  const newer = await db('analyses').where({ cavity_id: facts.cavity_id, status: 'done' }).andWhere('created_at', '>', facts.created_at).first('id')
+  // Compared in SQL: JavaScript dates hold milliseconds, PostgreSQL microseconds.
+  const newer = await db('analyses')
+    .where({ cavity_id: facts.cavity_id, status: 'done' })
+    .andWhereRaw('created_at > (select created_at from analyses where id = ?)', [facts.id])
+    .first('id')
   if (newer) return { breaches: [], recoveries: [], skipped: 'superseded' }
 
   const settings = { targetFundamentalFraction: facts.target_fundamental_fraction, finesseDropPercent: facts.finesse_drop_percent }
-  const medianFinesse = settings.finesseDropPercent === null ? null : await recentMedianFinesse(db, facts.cavity_id, facts.created_at, facts.id)
+  const medianFinesse = settings.finesseDropPercent === null ? null : await recentMedianFinesse(db, facts.cavity_id, facts.id)
   const verdicts = judgeAlerts({ fundamentalFraction: facts.fundamental_fraction, finesse: facts.finesse, settings, medianFinesse })
 
   return db.transaction(async (trx) => {
