@@ -17,7 +17,6 @@ describe('history, overview and comparison', () => {
   let lead: TestActor
   let viewer: TestActor
   let cavityId: string
-  let emptyCavityId: string
   const now = Date.now()
   /** Three done analyses 40, 10 and 1 days ago, oldest first. */
   const scans: Array<{ analysisId: string; traceId: string; at: Date; fraction: number }> = []
@@ -48,7 +47,7 @@ describe('history, overview and comparison', () => {
       return response.body.cavity.id as string
     }
     cavityId = await create('Overview main cavity', 0.7)
-    emptyCavityId = await create('Overview empty cavity', null)
+    await create('Overview empty cavity', null)
     const archivedId = await create('Overview archived cavity', 0.5)
     await request(server.url).patch(`/api/cavities/${archivedId}`).set('Authorization', lead.authorization).send({ archived: true })
 

@@ -3,6 +3,7 @@
  * tests/api/permissions.test.ts walks. Add a line here when you add a protected route.
  */
 import type { Action, Role } from '../../../shared/auth/permissions'
+import { insertEntry } from '../../../server/logbook/logbookRepository'
 import { newApiToken } from '../../../server/tokens/secretTokens'
 import { insertToken } from '../../../server/tokens/tokensData'
 import type { TestServer } from '../../support/testServer'
@@ -30,6 +31,29 @@ export interface ProtectedRouteCase {
 }
 
 const at = (path: string, body?: unknown) => async () => ({ path, body })
+
+/** A log entry on the fixture cavity written by the caller (authors may change their own entries). */
+async function ownLogEntry(server: TestServer, authorId: number): Promise<string> {
+  return insertEntry(server.db, { cavityId: (await tuningFixture(server)).cavityId, occurredAt: new Date(), authorId, kind: 'inspection', text: 'walk entry' })
+}
+
+/** A finished analysis on the fixture trace (written straight in the database), for the comparison. */
+const doneAnalyses = new WeakMap<TestServer, Promise<string>>()
+function doneAnalysis(server: TestServer): Promise<string> {
+  let made = doneAnalyses.get(server)
+  if (!made) {
+    made = (async () => {
+      const fixture = await tuningFixture(server)
+      const result = { fundamentalFraction: 0.8, finesse: 400, linewidthHz: 3.7e6, fsr: { hz: 1.5e9, seconds: 1e-2 }, misalignmentShare: 0.1, mismatchShare: 0.1, orders: { '0': 0.8, '1': 0.1, '2': 0.1 } }
+      const [row] = (await server.db('analyses')
+        .insert({ trace_id: fixture.traceId, cavity_id: fixture.cavityId, status: 'done', geometry: JSON.stringify(testCavityGeometry), result: JSON.stringify(result), fundamental_fraction: 0.8, finesse: 400, linewidth_hz: 3.7e6 })
+        .returning('id')) as Array<{ id: string }>
+      return row.id
+    })()
+    doneAnalyses.set(server, made)
+  }
+  return made
+}
 
 export const protectedRoutes: ProtectedRouteCase[] = [
   { method: 'get', route: '/api/auth/me', action: 'signedIn', okStatus: 200, request: at('/api/auth/me') },
@@ -82,4 +106,54 @@ export const protectedRoutes: ProtectedRouteCase[] = [
   { method: 'get', route: '/api/traces/:id/file', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/traces/${(await tuningFixture(server)).traceId}/file` }) },
   { method: 'post', route: '/api/traces/:id/analyses', action: 'analyses.run', okStatus: 202, request: async ({ server }) => ({ path: `/api/traces/${(await tuningFixture(server)).traceId}/analyses`, body: { peakModel: 'auto' } }) },
   { method: 'get', route: '/api/analyses/:id', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/analyses/${(await tuningFixture(server)).analysisId}` }) },
+  // History, overview, maintenance log and alerts (issue 7).
+  { method: 'get', route: '/api/cavities/:id/history.csv', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/history.csv` }) },
+  { method: 'get', route: '/api/analyses/compare', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/analyses/compare?a=${await doneAnalysis(server)}&b=${await doneAnalysis(server)}` }) },
+  { method: 'get', route: '/api/overview', action: 'lab.read', okStatus: 200, request: at('/api/overview') },
+  { method: 'get', route: '/api/overview.csv', action: 'lab.read', okStatus: 200, request: at('/api/overview.csv') },
+  { method: 'get', route: '/api/log-kinds', action: 'lab.read', okStatus: 200, request: at('/api/log-kinds') },
+  { method: 'post', route: '/api/log-kinds', action: 'cavities.write', okStatus: 201, request: async ({ caller }) => ({ path: '/api/log-kinds', body: { label: `Walk kind ${uniqueEmail(caller.role)}` } }) },
+  { method: 'get', route: '/api/cavities/:id/log-entries', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/log-entries?q=walk` }) },
+  {
+    method: 'post',
+    route: '/api/cavities/:id/log-entries',
+    action: 'logbook.write',
+    okStatus: 201,
+    request: async ({ server, caller }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/log-entries`, body: { kind: 'cleaning', text: `walked by ${caller.role}` } }),
+  },
+  { method: 'get', route: '/api/log-entries/:id', action: 'lab.read', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/log-entries/${await ownLogEntry(server, caller.id)}` }) },
+  { method: 'patch', route: '/api/log-entries/:id', action: 'logbook.write', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/log-entries/${await ownLogEntry(server, caller.id)}`, body: { text: 'edited by the walk' } }) },
+  { method: 'delete', route: '/api/log-entries/:id', action: 'logbook.write', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/log-entries/${await ownLogEntry(server, caller.id)}` }) },
+  {
+    method: 'post',
+    route: '/api/log-entries/:id/traces',
+    action: 'logbook.write',
+    okStatus: 202,
+    async request({ server, caller }) {
+      const fixture = await tuningFixture(server)
+      return { path: `/api/log-entries/${await ownLogEntry(server, caller.id)}/traces`, attach: { field: 'file', content: Buffer.from(`${fixture.csv}\n# log entry by ${caller.role}\n`), fileName: `entry-${caller.role}.csv` } }
+    },
+  },
+  { method: 'get', route: '/api/cavities/:id/alerts', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/alerts` }) },
+  {
+    method: 'put',
+    route: '/api/cavities/:id/alerts',
+    action: 'targets.write',
+    okStatus: 200,
+    request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/alerts`, body: { targetFundamentalFraction: 0.8, finesseDropPercent: 15 } }),
+  },
+  { method: 'put', route: '/api/cavities/:id/watch', action: 'signedIn', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/watch` }) },
+  { method: 'delete', route: '/api/cavities/:id/watch', action: 'signedIn', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/watch` }) },
+  { method: 'get', route: '/api/notifications', action: 'signedIn', okStatus: 200, request: at('/api/notifications') },
+  {
+    method: 'post',
+    route: '/api/notifications/:id/read',
+    action: 'signedIn',
+    okStatus: 200,
+    async request({ server, caller }) {
+      const [row] = (await server.db('notifications').insert({ user_id: caller.id, kind: 'fraction_below_target', title: 'walk notification' }).returning('id')) as Array<{ id: string }>
+      return { path: `/api/notifications/${row.id}/read` }
+    },
+  },
+  { method: 'post', route: '/api/notifications/read-all', action: 'signedIn', okStatus: 200, request: at('/api/notifications/read-all') },
 ]
