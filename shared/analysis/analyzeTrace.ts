@@ -147,9 +147,13 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const fastStructure = comb.members.some((k) => measured[k].lobeCount >= 3)
   let shares = calibration && finesse
     ? measureOrderShares({
-        signal, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
+        signal, raw: part, darkLevelV, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
         orders: measuredOrders(families.leaders, labels),
+        detected: measured
+          .map((m, i) => ({ nu: positions[i], order: labels[i].kind === 'carrier' ? labels[i].order : null, heightV: m.heightV }))
+          .filter((d): d is { nu: number; order: number; heightV: number } => d.order !== null && Number.isFinite(d.nu)),
+        placementToleranceFsr: Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)),
         firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
         startSeconds: timeAt(sweep.startIndex), dtSeconds: dt,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
@@ -163,6 +167,10 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   }
   const { orders, fundamentalFraction } = shares
   const useHeight = shares.measure === 'height'
+  // The finesse of the joint line model replaces the TEM00 fits' when the model follows the data.
+  if (finesse && shares.finesse !== null && shares.reducedChiSquare !== null && shares.reducedChiSquare <= MAX_LINE_CHI_SQUARE) {
+    finesse = { value: shares.finesse, error: finesse.error }
+  }
 
   const peaks: AnalysisPeak[] = measured.map((m, i) => {
     const l = labels[i]
@@ -196,6 +204,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       toleranceFsr,
       model,
       orders,
+      orderResidualRmsFsr: orderResidual,
     }),
   ]
   const misalignmentShare = orders['1'] ?? 0
@@ -268,7 +277,10 @@ function chooseComb(
   roughWidth: number,
 ): FundamentalComb {
   const positions = measured.map((m) => ({ center: m.centerIndex, height: m.heightV }))
-  const found = [findFundamentals(positions), findFundamentals(positions, { tallFraction: 0.5 })]
+  const toleranceFsr = 0.06
+  const found = [findFundamentals(positions), findFundamentals(positions, { tallFraction: 0.5 })].map((c) =>
+    dropTransverseEnds(c, measured, tOf, predictedGouy, allowedOrders, toleranceFsr),
+  )
   const candidates: FundamentalComb[] = []
   const add = (c: FundamentalComb) => {
     if (c.members.length < 2) return
@@ -331,6 +343,47 @@ interface PreparedSignal {
   sigmaV: number
   darkLevelV: number
   quantumV: number
+}
+
+/**
+ * A strong transverse mode one step beyond the last TEM00 can join the comb walk. Each end member is placed with
+ * the calibration of the other members; when it sits much nearer a predicted transverse order (N·ψ/π either way,
+ * Siegman, "Lasers" (1986), ch. 19) than the FSR index the comb gives it, and the others pin the sweep (three or
+ * more of them) or it is much lower than they are, it is dropped.
+ */
+function dropTransverseEnds(
+  comb: FundamentalComb,
+  measured: MeasuredResonance[],
+  tOf: (m: MeasuredResonance) => number,
+  gouy: number,
+  allowedOrders: number[],
+  toleranceFsr: number,
+): FundamentalComb {
+  let members = comb.members.slice()
+  let fsrIndex = comb.fsrIndex.slice()
+  const offsets = allowedOrders.filter((order) => order > 0).map((order) => transverseOffsetFsr(order, gouy))
+  const circular = (d: number) => Math.abs(d - Math.round(d))
+  for (let round = 0; round < 2; round++) {
+    let changed = false
+    for (const end of [0, 1]) {
+      if (members.length < 3) break
+      const k = end === 0 ? 0 : members.length - 1
+      const restMembers = members.filter((_, i) => i !== k)
+      const restIndex = fsrIndex.filter((_, i) => i !== k)
+      const calibration = calibrateSweep(restMembers.map((j) => tOf(measured[j])), restIndex)
+      const nu = frequencyAt(calibration, tOf(measured[members[k]]))
+      const fromIndex = Math.abs(nu - fsrIndex[k])
+      const fromOrder = Math.min(...offsets.flatMap((o) => [circular(nu - o), circular(nu + o)]))
+      const lower = measured[members[k]].heightV < 0.6 * median(restMembers.map((j) => measured[j].heightV))
+      if (fromIndex > toleranceFsr && fromOrder < 0.5 * fromIndex && (restMembers.length >= 3 || lower)) {
+        members = restMembers
+        fsrIndex = restIndex.map((i) => i - restIndex[0])
+        changed = true
+      }
+    }
+    if (!changed) break
+  }
+  return { members, fsrIndex }
 }
 
 /** Baseline-subtracted signal with its noise level. */
@@ -464,6 +517,13 @@ function measuredOrders(leaders: number[], labels: OrderLabel[]): number[] {
 }
 
 interface ShareInputs {
+  /** The selected part as recorded, and its dark level: the line model fits its own slow background. */
+  raw: Float64Array
+  darkLevelV: number
+  /** Carriers found and labelled, at their measured places (FSR units on the calibrated axis). */
+  detected: { nu: number; order: number; heightV: number }[]
+  /** A predicted line moves to a detected carrier of its order within this distance, FSR units. */
+  placementToleranceFsr: number
   signal: Float64Array
   sigmaV: number
   calibration: SweepCalibration
@@ -487,6 +547,8 @@ interface Shares {
   measure: 'height' | 'area'
   reducedChiSquare: number | null
   shareOfPeak: (order: number, positionFsr: number) => number
+  /** Finesse refined with the line model (null when the shares do not come from it). */
+  finesse: number | null
 }
 
 /** χ² per degree of freedom above which the line model is not trusted for heights. */
@@ -526,6 +588,7 @@ function peakAreaShares(
     fundamentalFractionError: null,
     measure: 'area',
     reducedChiSquare: null,
+    finesse: null,
     shareOfPeak: (order, positionFsr) => {
       const i = positions.indexOf(positionFsr)
       return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
@@ -533,8 +596,8 @@ function peakAreaShares(
   }
 }
 
-/** Lines are modelled out to ± this many linewidths (see fitOrderPowers). */
-const SUPPORT_LINEWIDTHS = 15
+/** Lines are modelled out to ± this many linewidths (at most half an FSR): the Airy wing left out there is 1e-4 of the height (1/(4·50²)), below the noise of any record. */
+const SUPPORT_LINEWIDTHS = 50
 
 function measureOrderShares(input: ShareInputs): Shares {
   const { signal, calibration, direction, gouy, finesse, firstIndex, lastIndex } = input
@@ -560,14 +623,46 @@ function measureOrderShares(input: ShareInputs): Shares {
       const at = p + sign * transverseOffsetFsr(order, gouy)
       if (at < lo - 0.5 / finesse || at > hi + 0.5 / finesse) continue
       const counted = direction === 'up' ? at >= firstIndex - epsilon && at < lastIndex - epsilon : at > firstIndex + epsilon && at <= lastIndex + epsilon
-      lines.push({ nu: at, order, counted })
+      // A line found where its order was matched sits where it was found: the calibration between TEM00
+      // resonances is only as good as the sweep model, and a line misplaced by a linewidth loses its height.
+      let placed = at
+      let nearest = input.placementToleranceFsr
+      for (const d of input.detected) {
+        if (d.order === order && Math.abs(d.nu - at) <= nearest) {
+          nearest = Math.abs(d.nu - at)
+          placed = d.nu
+        }
+      }
+      lines.push({ nu: placed, order, counted })
     }
   }
   const sidebandReach = input.sidebands && input.sidebands.ratio > 0 ? input.sidebands.offsetFsr : 0
   const support = Math.min(0.5, SUPPORT_LINEWIDTHS / finesse) + sidebandReach
   const centres = Float64Array.from(lines, (l) => l.nu).sort()
-  const { y, nu, stepFsr } = samplesNearLines(signal, cell, gridNu, centres, support, u0, du, c)
-  const fit = fitOrderPowers(y, nu, lines, { finesse, sidebands: input.sidebands, sigmaV: input.sigmaV, supportLinewidths: SUPPORT_LINEWIDTHS, stepFsr })
+  // The line model sees the record less its dark level, not the drift-following baseline: block levels also
+  // carry the wings of the resonances in each block, which would bend the lines. Slow drift is a quadratic
+  // background fitted with the lines instead.
+  const { y, nu, stepFsr, x } = samplesNearLines(input.raw, input.darkLevelV, cell, gridNu, centres, support, u0, du, c)
+  const background = { x, degree: 2 }
+  // The shared linewidth is refined with the heights: every line of every order, their sidebands and the wings
+  // of their neighbours share one Airy width on the calibrated axis, so the finesse comes from all of them and
+  // not from TEM00 fits that see the neighbours' wings as baseline. The samples stay the same at every trial
+  // (support fixed in FSR), so the residuals compare.
+  // Sidebands closer than a few linewidths blur into the carrier: their power and the width trade off, so both
+  // are refined in turn (coordinate descent) rather than the power taken from the TEM00 fits alone.
+  const fitWith = (f: number, sidebands: ShareInputs['sidebands']) =>
+    fitOrderPowers(y, nu, lines, { finesse: f, sidebands, sigmaV: input.sigmaV, supportLinewidths: (SUPPORT_LINEWIDTHS * f) / finesse, stepFsr, background })
+  let sidebands = input.sidebands
+  let fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.8 * finesse, 1.25 * finesse, 14)
+  if (sidebands && sidebands.offsetFsr * finesse < 3) {
+    for (let round = 0; round < 2; round++) {
+      const base: { offsetFsr: number; ratio: number } = sidebands
+      const ratio = goldenSectionMinimum((r) => fitWith(fittedFinesse, { ...base, ratio: r - 1e-3 }).reducedChiSquare, 1e-3, 2 * base.ratio + 0.1, 14) - 1e-3
+      sidebands = { ...base, ratio: Math.max(0, ratio) }
+      fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.8 * finesse, 1.25 * finesse, 14)
+    }
+  }
+  const fit = fitWith(fittedFinesse, sidebands)
   const useHeight = input.preferHeight && fit.reducedChiSquare <= MAX_LINE_CHI_SQUARE
   const m = lines.length
   const sums = new Map<number, { value: number; variance: number }>()
@@ -605,6 +700,7 @@ function measureOrderShares(input: ShareInputs): Shares {
     fundamentalFractionError: Number.isFinite(variance) ? Math.sqrt(variance) : null,
     measure: useHeight ? 'height' : 'area',
     reducedChiSquare: Number.isFinite(fit.reducedChiSquare) ? fit.reducedChiSquare : null,
+    finesse: Number.isFinite(fit.reducedChiSquare) ? fittedFinesse : null,
     shareOfPeak: (order, positionFsr) => {
       if (!(String(order) in orders)) return 0
       for (let j = 0; j < m; j++) {
@@ -614,6 +710,36 @@ function measureOrderShares(input: ShareInputs): Shares {
       return 0
     },
   }
+}
+
+/**
+ * Minimum of a unimodal function on [a, b] by golden-section search, on a log scale (Press et al., "Numerical
+ * Recipes", §10.2 (Kiefer's method)); `iterations` steps shrink the bracket by 0.618 each.
+ */
+function goldenSectionMinimum(f: (x: number) => number, a: number, b: number, iterations: number): number {
+  const g = (Math.sqrt(5) - 1) / 2
+  let lo = Math.log(a)
+  let hi = Math.log(b)
+  let x1 = hi - g * (hi - lo)
+  let x2 = lo + g * (hi - lo)
+  let f1 = f(Math.exp(x1))
+  let f2 = f(Math.exp(x2))
+  for (let k = 0; k < iterations; k++) {
+    if (!(f1 <= f2) && Number.isFinite(f2)) {
+      lo = x1
+      x1 = x2
+      f1 = f2
+      x2 = lo + g * (hi - lo)
+      f2 = f(Math.exp(x2))
+    } else {
+      hi = x2
+      x2 = x1
+      f2 = f1
+      x1 = hi - g * (hi - lo)
+      f1 = f(Math.exp(x1))
+    }
+  }
+  return Math.exp(f1 <= f2 ? x1 : x2)
 }
 
 /** ν at every `cell`-th sample (and the last), ν = Σ cₖ uᵏ with u = u0 + i·du. */
@@ -634,7 +760,8 @@ function gridFrequencies(n: number, cell: number, u0: number, du: number, c: num
  * curvature, meets a line's support), with their ν and their width on the ν axis.
  */
 function samplesNearLines(
-  signal: Float64Array,
+  raw: Float64Array,
+  darkLevelV: number,
   cell: number,
   gridNu: Float64Array,
   centres: Float64Array,
@@ -642,8 +769,8 @@ function samplesNearLines(
   u0: number,
   du: number,
   c: number[],
-): { y: Float64Array; nu: Float64Array; stepFsr: Float64Array } {
-  const n = signal.length
+): { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; x: Float64Array } {
+  const n = raw.length
   const cellCount = gridNu.length - 1
   const take = new Uint8Array(cellCount)
   let total = 0
@@ -668,6 +795,7 @@ function samplesNearLines(
   const y = new Float64Array(total)
   const nu = new Float64Array(total)
   const stepFsr = new Float64Array(total)
+  const x = new Float64Array(total)
   let w = 0
   for (let g = 0; g < cellCount; g++) {
     if (!take[g]) continue
@@ -680,13 +808,14 @@ function samplesNearLines(
         d = d * u + v
         v = v * u + c[k]
       }
-      y[w] = signal[i]
+      y[w] = raw[i] - darkLevelV
+      x[w] = n > 1 ? (2 * i) / (n - 1) - 1 : 0
       nu[w] = v
       stepFsr[w] = Math.abs(d * du)
       w++
     }
   }
-  return { y, nu, stepFsr }
+  return { y, nu, stepFsr, x }
 }
 
 /** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */
@@ -698,6 +827,7 @@ function fundamentalOnlyShares(measured: MeasuredResonance[], members: number[])
     fundamentalFractionError: null,
     measure: 'height',
     reducedChiSquare: null,
+    finesse: null,
     shareOfPeak: (order) => (order === 0 && total > 0 ? 1 / Math.max(1, members.length) : 0),
   }
 }

@@ -18,6 +18,8 @@ export interface WarningInputs {
   toleranceFsr: number
   model: CavityModel
   orders: Record<string, number>
+  /** RMS distance of the matched carriers from their predicted places, FSR units (null without a calibration). */
+  orderResidualRmsFsr: number | null
 }
 
 /** Highest order checked for degeneracy warnings (higher ones rarely carry power worth a warning). */
@@ -39,6 +41,13 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
     w.push({
       code: 'single_fundamental',
       message: 'Fewer than two TEM00 resonances in the sweep: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. Sweep over more than one FSR.',
+    })
+  }
+  if (fundamentals.length === 2) {
+    const spread = input.orderResidualRmsFsr !== null && input.orderResidualRmsFsr > 0 ? ` by about ±${Math.max(input.orderResidualRmsFsr, 1e-4).toFixed(4)} FSR` : ''
+    w.push({
+      code: 'two_fundamentals',
+      message: `Only two TEM00 resonances: the piezo nonlinearity cannot be read from the TEM00 spacing, so the sweep between them is taken from the transverse modes with the Gouy phase held at the prediction; order positions are uncertain${spread} and the measured Gouy phase is the predicted one. Sweep over three or more FSRs for a checked calibration.`,
     })
   }
   const degenerate = degeneracy(input)

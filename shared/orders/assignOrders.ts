@@ -82,7 +82,8 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
       ss += peaks[i].weight * l.residualFsr ** 2
       ws += peaks[i].weight
     }
-    score *= Math.exp(-(((gouy - predictedGouyRad) / (0.5 * maxGouyShiftRad)) ** 2))
+    // (Scaled no finer than 0.5 % of ψ: under a tight bound the small shift left says nothing about direction.)
+    if (maxGouyShiftRad > 0) score *= Math.exp(-(((gouy - predictedGouyRad) / Math.max(0.5 * maxGouyShiftRad, 0.005 * predictedGouyRad)) ** 2))
     const candidate = { labels, direction, measuredGouyRad: gouy, residualRmsFsr: ws > 0 ? Math.sqrt(ss / ws) : 0, score }
     if (!best || candidate.score > best.score) best = candidate
   }
@@ -99,6 +100,42 @@ interface MatchSettings {
 }
 
 function matchAll(peaks: PlacedPeak[], positions: number[], gouy: number, s: MatchSettings): OrderLabel[] {
+  const labels = matchEach(peaks, positions, gouy, s)
+  return s.sidebandOffsetFsr === null ? labels : confirmSidebands(peaks, positions, labels, gouy, s)
+}
+
+/**
+ * A sideband comes with its carrier: a stronger resonance of the same order one modulation frequency away
+ * in the same FSR period (Black, Am. J. Phys. 69, 79 (2001)). A resonance labelled a sideband without one is a carrier displaced by the
+ * sweep's nonlinearity: it takes its carrier label when one is within the tolerance, else it stays unassigned.
+ */
+function confirmSidebands(peaks: PlacedPeak[], positions: number[], labels: OrderLabel[], gouy: number, s: MatchSettings): OrderLabel[] {
+  const offset = s.sidebandOffsetFsr!
+  const carrierOnly = { ...s, sidebandOffsetFsr: null }
+  let first = Infinity
+  let last = -Infinity
+  for (const peak of peaks) {
+    if (peak.positionFsr < first) first = peak.positionFsr
+    if (peak.positionFsr > last) last = peak.positionFsr
+  }
+  return labels.map((label, i) => {
+    if (label.kind !== 'sideband') return label
+    // At the ends of the record the carrier may lie outside it: nothing to check against.
+    const p = peaks[i].positionFsr
+    if (p - offset < first || p + offset > last) return label
+    // The carrier sits one offset to either side, displaced like the sideband (they are close): a tight match.
+    const hasCarrier = peaks.some(
+      (peak, j) =>
+        j !== i &&
+        peak.weight > peaks[i].weight &&
+        [1, -1].some((sign) => Math.abs(peak.positionFsr - (peaks[i].positionFsr + sign * offset)) <= Math.min(s.tolerance, 0.5 * offset)),
+    )
+    if (hasCarrier) return label
+    return matchEach([peaks[i]], [positions[i]], gouy, carrierOnly)[0]
+  })
+}
+
+function matchEach(peaks: PlacedPeak[], positions: number[], gouy: number, s: MatchSettings): OrderLabel[] {
   const offsets = predictOrderOffsets(gouy, s.maxOrder)
   return peaks.map((peak, i) => {
     if (peak.fundamental) return { kind: 'carrier', order: 0, residualFsr: signedCircular(positions[i] - 0) }

@@ -25,6 +25,11 @@ export interface FitOrderPowersOptions {
    * (only the windows around the lines are handed over). @default from the neighbouring samples' ν
    */
   stepFsr?: Float64Array | null
+  /**
+   * Abscissa of a slow background (e.g. the sample's time scaled to [−1, 1]) and the degree of the polynomial in it
+   * fitted with the lines (slow drift of the dark level). Without it the background is one constant. @default null
+   */
+  background?: { x: Float64Array; degree: number } | null
 }
 
 export interface LinePower {
@@ -44,7 +49,7 @@ export interface LinePower {
 
 export interface OrderPowerFit {
   lines: LinePower[]
-  /** Residual constant level fitted with the lines, volts. */
+  /** Residual constant level fitted with the lines, volts (the constant term of the background). */
   offsetV: number
   /** Σ residual² / (σ² (n − p)) over the samples the lines cover. */
   reducedChiSquare: number
@@ -61,13 +66,16 @@ export interface OrderPowerFit {
  * power ratios. A second pass sums the data in a window about each line (neighbours removed) for the area measure.
  */
 export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: PredictedLine[], options: FitOrderPowersOptions): OrderPowerFit {
-  const { finesse, sidebands = null, sigmaV, supportLinewidths = 15, areaLinewidths = 6, stepFsr = null } = options
+  const { finesse, sidebands = null, sigmaV, supportLinewidths = 15, areaLinewidths = 6, stepFsr = null, background = null } = options
   if (nu.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and nu must have the same length')
   if (stepFsr && stepFsr.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and stepFsr must have the same length')
   if (!(finesse > 1)) throw new EngineError('invalid_argument', `finesse must be above 1, got ${finesse}`)
   if (!(sigmaV > 0)) throw new EngineError('invalid_argument', `sigmaV must be above 0, got ${sigmaV}`)
+  if (background && background.x.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and background.x must have the same length')
   const m = lines.length
-  const p = m + 1
+  const backgroundX = background && background.degree > 0 ? background.x : null
+  const terms = backgroundX ? background!.degree + 1 : 1
+  const p = m + terms
   const order = lines.map((_, j) => j).sort((a, b) => lines[a].nu - lines[b].nu)
   const sortedNu = Float64Array.from(order, (j) => lines[j].nu)
   const shape: LineShape = {
@@ -81,7 +89,7 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   // Pass 1: normal equations over the samples within reach of some line, plus the constant level.
   const ata = new Float64Array(p * p)
   const aty = new Float64Array(p)
-  const used = accumulateNormalEquations(signalV, nu, sortedNu, sortedOrder, support, shape, ata, aty)
+  const used = accumulateNormalEquations(signalV, nu, backgroundX, terms, sortedNu, sortedOrder, support, shape, ata, aty)
   const observed = lines.map((_, j) => ata[j * p + j] > 0)
   for (let j = 0; j < p; j++) {
     if (!(ata[j * p + j] > 0)) { ata[j * p + j] = 1; aty[j] = 0 }
@@ -89,6 +97,7 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   const factor = cholesky(ata, p)
   const solution = choleskySolve(factor, p, aty)
   const heights = solution.subarray(0, m)
+  const backgroundV = solution.subarray(m, p)
   const offsetV = solution[m]
 
   // Covariance σ²(AᵀA)⁻¹ for the line heights.
@@ -104,7 +113,7 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   // Pass 2: residuals and the windowed sums of the area measure.
   const sums = { data: new Float64Array(m), unit: new Float64Array(m), width2: new Float64Array(m) }
   const areaHalf = Math.min(support, areaLinewidths / finesse + shape.delta)
-  const rss = residualsAndAreas(signalV, nu, stepFsr, sortedNu, sortedOrder, support, areaHalf, shape, heights, offsetV, sums)
+  const rss = residualsAndAreas(signalV, nu, stepFsr, backgroundX, backgroundV, sortedNu, sortedOrder, support, areaHalf, shape, heights, sums)
   const result: LinePower[] = lines.map((_, j) => ({
     heightV: observed[j] ? heights[j] : 0,
     heightErrorV: observed[j] ? Math.sqrt(Math.max(0, covariance[j * m + j])) : Infinity,
@@ -140,6 +149,8 @@ function unitLine(z: number, shape: LineShape): number {
 function accumulateNormalEquations(
   signalV: Float64Array,
   nu: Float64Array,
+  backgroundX: Float64Array | null,
+  terms: number,
   sortedNu: Float64Array,
   sortedOrder: Int32Array,
   support: number,
@@ -149,9 +160,9 @@ function accumulateNormalEquations(
 ): number {
   const n = signalV.length
   const m = sortedNu.length
-  const p = m + 1
-  const active = new Int32Array(m + 1)
-  const values = new Float64Array(m + 1)
+  const p = m + terms
+  const active = new Int32Array(p)
+  const values = new Float64Array(p)
   let first = 0
   let used = 0
   for (let i = 0; i < n; i++) {
@@ -166,9 +177,15 @@ function accumulateNormalEquations(
       count++
     }
     if (count === 0) continue
-    active[count] = m
-    values[count] = 1
-    count++
+    // The background terms 1, x, x², … of the slow level.
+    let power = 1
+    const x = backgroundX ? backgroundX[i] : 0
+    for (let t = 0; t < terms; t++) {
+      active[count] = m + t
+      values[count] = power
+      power *= x
+      count++
+    }
     used++
     for (let a = 0; a < count; a++) {
       const ra = active[a] * p
@@ -185,13 +202,14 @@ function residualsAndAreas(
   signalV: Float64Array,
   nu: Float64Array,
   stepFsr: Float64Array | null,
+  backgroundX: Float64Array | null,
+  backgroundV: Float64Array,
   sortedNu: Float64Array,
   sortedOrder: Int32Array,
   support: number,
   areaHalf: number,
   shape: LineShape,
   heights: Float64Array,
-  offsetV: number,
   sums: { data: Float64Array; unit: Float64Array; width2: Float64Array },
 ): number {
   const n = signalV.length
@@ -206,7 +224,13 @@ function residualsAndAreas(
     if (!(v - v === 0) || !(y - y === 0)) continue
     while (first < m && sortedNu[first] < v - support) first++
     let count = 0
-    let model = offsetV
+    let model = 0
+    let power = 1
+    const x = backgroundX ? backgroundX[i] : 0
+    for (let t = 0; t < backgroundV.length; t++) {
+      model += backgroundV[t] * power
+      power *= x
+    }
     for (let s = first; s < m && sortedNu[s] <= v + support; s++) {
       const b = unitLine(v - sortedNu[s], shape)
       active[count] = s

@@ -14,6 +14,11 @@ export interface EstimateBaselineOptions {
   clipSigma?: number
   /** Follow slow drift block by block (false: one constant level). @default true */
   followDrift?: boolean
+  /**
+   * Block levels that differ by less than this many σ are taken as one constant level: their differences are then
+   * the resonance wings' share in each block, not drift, and following them would bend the lines' wings. @default 4
+   */
+  minDriftSigma?: number
 }
 
 /**
@@ -23,7 +28,7 @@ export interface EstimateBaselineOptions {
  * unlike a low quantile.
  */
 export function estimateBaseline(values: Float64Array, sigmaV: number, options: EstimateBaselineOptions = {}): BaselineEstimate {
-  const { blockCount = 16, clipSigma = 3, followDrift = true } = options
+  const { blockCount = 16, clipSigma = 3, followDrift = true, minDriftSigma = 4 } = options
   const n = values.length
   if (n < 3) throw new EngineError('too_few_samples', `A baseline needs at least 3 samples, got ${n}`)
   if (!(sigmaV >= 0)) throw new EngineError('invalid_argument', `sigmaV must be a non-negative number, got ${sigmaV}`)
@@ -45,7 +50,8 @@ export function estimateBaseline(values: Float64Array, sigmaV: number, options: 
   if (finiteLevels.length === 0) throw new EngineError('no_numeric_data', 'The transmission channel holds no finite values')
   const darkLevelV = median(finiteLevels.slice())
   for (let b = 0; b < levels.length; b++) if (!Number.isFinite(levels[b])) levels[b] = darkLevelV
-  const baselineV = interpolateLevels(levels, centres, n)
+  const spread = Math.max(...levels) - Math.min(...levels)
+  const baselineV = spread < minDriftSigma * sigmaV ? new Float64Array(n).fill(darkLevelV) : interpolateLevels(levels, centres, n)
   return { baselineV, darkLevelV }
 }
 
@@ -76,14 +82,32 @@ function clippedMedian(sample: Float64Array, sigmaV: number, clipSigma: number):
     level = next
     count = k
   }
-  // Mean of the samples symmetric about the median: resolves levels finer than an 8-bit step.
-  const half = Math.max(clipSigma * sigmaV, 1e-300)
+  // Mean of the samples within clipSigma·σ below the median (those equal to it counted half), moved up by the
+  // mean distance of that band for Gaussian noise, σ(φ(0) − φ(k))/(Φ(0) − Φ(−k)): resolves levels finer than an
+  // 8-bit step, and, unlike a band about the median, it holds no resonance wings (they lie above the dark level),
+  // so block levels do not follow the wings' share of each block.
+  const band = Math.max(clipSigma * sigmaV, 1e-300)
   let sum = 0
   let used = 0
   for (let i = 0; i < count; i++) {
-    if (Math.abs(sample[i] - level) <= half) { sum += sample[i]; used++ }
+    const d = level - sample[i]
+    if (d < 0 || d > band) continue
+    const w = d === 0 ? 0.5 : 1
+    sum += w * sample[i]
+    used += w
   }
-  return used > 0 ? sum / used : level
+  if (!(used > 0) || !(sigmaV > 0)) return level
+  const k = clipSigma
+  const phi = (x: number) => Math.exp(-0.5 * x * x) / Math.sqrt(2 * Math.PI)
+  const lowerBandMean = (phi(0) - phi(k)) / (0.5 - normalTail(k))
+  return sum / used + lowerBandMean * sigmaV
+}
+
+/** Upper tail of the standard normal, Q(x) for x ≥ 0 (Abramowitz & Stegun 26.2.17, error < 7.5e-8). */
+function normalTail(x: number): number {
+  const t = 1 / (1 + 0.2316419 * x)
+  const poly = t * (0.31938153 + t * (-0.356563782 + t * (1.781477937 + t * (-1.821255978 + t * 1.330274429))))
+  return (Math.exp(-0.5 * x * x) / Math.sqrt(2 * Math.PI)) * poly
 }
 
 function median(values: number[]): number {
