@@ -26,10 +26,12 @@ import type { EventHub } from './jobs/eventHub'
 import { traceRoutes } from './traces/traceRoutes'
 import { apiNotFound, errorHandler } from './http/errors'
 import { invitationsRoutes } from './invitations/invitationsRoutes'
+import { lensRoutes } from './lenses/lensRoutes'
 import { logbookRoutes } from './logbook/logbookRoutes'
 import { outboxRoutes } from './mail/outboxRoutes'
 import { notificationRoutes } from './notifications/notificationRoutes'
 import { overviewRoutes } from './overview/overviewRoutes'
+import { planRoutes } from './plans/planRoutes'
 import { tokensRoutes } from './tokens/tokensRoutes'
 import { usersRoutes } from './users/usersRoutes'
 
@@ -90,6 +92,8 @@ export function createApp(context: AppContext): Express {
   api.use(logbookRoutes(context))
   api.use(alertRoutes(context))
   api.use(notificationRoutes(context))
+  api.use(lensRoutes(context))
+  api.use(planRoutes(context))
   if (mailCaptureOn(config)) api.use(outboxRoutes(db))
   api.use(apiNotFound)
   app.use('/api', api)

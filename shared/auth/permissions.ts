@@ -44,7 +44,7 @@ export const actionSummaries: Record<Action, string> = {
 
 const everyone: readonly Action[] = ['lab.read', 'tokens.manageOwn']
 const experimenterActions: readonly Action[] = [...everyone, 'traces.upload', 'analyses.run', 'notes.write']
-const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'logbook.write']
+const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'logbook.write', 'lenses.write']
 // A lead runs the lab's bench work as well as its plans, so it may do what experimenters and technicians do.
 const leadActions: readonly Action[] = [...new Set([...experimenterActions, ...technicianActions, 'cavities.write', 'targets.write', 'lenses.write'] as Action[])]
 

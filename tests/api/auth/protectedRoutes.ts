@@ -3,13 +3,47 @@
  * tests/api/permissions.test.ts walks. Add a line here when you add a protected route.
  */
 import type { Action, Role } from '../../../shared/auth/permissions'
+import type { AnalysisResult } from '../../../shared/analysis/types'
+import { finishAnalysis, insertAnalysis } from '../../../server/analyses/analysisRepository'
+import { insertLens } from '../../../server/lenses/lensRepository'
 import { insertEntry } from '../../../server/logbook/logbookRepository'
+import { savePlan } from '../../../server/plans/planService'
 import { newApiToken } from '../../../server/tokens/secretTokens'
 import { insertToken } from '../../../server/tokens/tokensData'
 import type { TestServer } from '../../support/testServer'
 import { tuningFixture } from '../../support/tuningFixtures'
 import { testCavityGeometry } from '../../support/traceFiles'
 import { createPerson, uniqueEmail } from './accountsTestKit'
+
+let walkLensCounter = 0
+/** A lens of the kit made straight in the database (unique label per call). */
+async function walkLens(server: TestServer, focalLengthMm = 150): Promise<string> {
+  walkLensCounter += 1
+  return (await insertLens(server.db, { label: `walk-${process.pid}-${walkLensCounter}`, focalLengthMm, count: 1, type: 'plano-convex', wavelengthMinNm: null, wavelengthMaxNm: null, notes: '' })).id
+}
+
+/** A small, quick planner request for the fixture cavity (coarse 5 mm grid). */
+const walkPlanInputs = {
+  beam: { kind: 'waist' as const, x: { waistRadiusMm: 0.3, waistPositionMm: 0 } },
+  table: { laserToCavityMm: 500, lensZonesMm: [[50, 200], [250, 400]] as [number, number][], minSpacingMm: 10, positionStepMm: 5 },
+}
+
+/** A saved plan of the fixture cavity authored by the caller, made through the domain function. */
+async function walkPlan(server: TestServer, caller: WalkContext['caller']): Promise<string> {
+  const { cavityId } = await tuningFixture(server)
+  const inputs = { ...walkPlanInputs, couplingTarget: 0.95, rankBy: 'robust' as const, toleranceMm: 1, table: { ...walkPlanInputs.table } }
+  const plan = await savePlan(server.db, cavityId, { inputs, lenses: [{ lensId: await walkLens(server), zMm: 120 }], note: 'walk' }, { ...caller, name: 'walk', via: 'session' })
+  return plan.id
+}
+
+/** A finished analysis of the fixture cavity with a constructed result (orders only). */
+async function walkDoneAnalysis(server: TestServer): Promise<string> {
+  const { cavityId, traceId } = await tuningFixture(server)
+  const analysis = await insertAnalysis(server.db, { traceId, cavityId, options: {}, geometry: testCavityGeometry, requestedBy: null })
+  const result = { fundamentalFraction: 0.9, finesse: 400, linewidthHz: 4e6, orders: { '0': 0.9, '1': 0.05, '2': 0.05 } } as unknown as AnalysisResult
+  await finishAnalysis(server.db, analysis.id, { result, engineMs: 1 })
+  return analysis.id
+}
 
 /** What a case may use to build its request. */
 export interface WalkContext {
@@ -156,4 +190,38 @@ export const protectedRoutes: ProtectedRouteCase[] = [
     },
   },
   { method: 'post', route: '/api/notifications/read-all', action: 'signedIn', okStatus: 200, request: at('/api/notifications/read-all') },
+  // The lens kit and the mode-matching planner (issue 8).
+  { method: 'get', route: '/api/lenses', action: 'lab.read', okStatus: 200, request: at('/api/lenses') },
+  { method: 'get', route: '/api/lenses.csv', action: 'lab.read', okStatus: 200, request: at('/api/lenses.csv') },
+  { method: 'post', route: '/api/lenses', action: 'lenses.write', okStatus: 201, request: async () => ({ path: '/api/lenses', body: { label: `walk-new-${uniqueEmail('l')}`.slice(0, 40), focalLengthMm: 75 } }) },
+  {
+    method: 'post',
+    route: '/api/lenses/import',
+    action: 'lenses.write',
+    okStatus: 200,
+    request: async ({ caller }) => ({ path: '/api/lenses/import', attach: { field: 'file', content: Buffer.from(`label,focal_length_mm,count\nwalk-csv-${caller.role},250,2\n`), fileName: 'kit.csv' } }),
+  },
+  { method: 'patch', route: '/api/lenses/:id', action: 'lenses.write', okStatus: 200, request: async ({ server }) => ({ path: `/api/lenses/${await walkLens(server)}`, body: { count: 2 } }) },
+  { method: 'delete', route: '/api/lenses/:id', action: 'lenses.write', okStatus: 204, request: async ({ server }) => ({ path: `/api/lenses/${await walkLens(server)}` }) },
+  {
+    method: 'post',
+    route: '/api/cavities/:id/plan',
+    action: 'lab.read',
+    okStatus: 200,
+    async request({ server }) {
+      const lensIds = [await walkLens(server, 100), await walkLens(server, 200)]
+      return { path: `/api/cavities/${(await tuningFixture(server)).cavityId}/plan`, body: { ...walkPlanInputs, lensIds } }
+    },
+  },
+  { method: 'get', route: '/api/cavities/:id/plans', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/plans` }) },
+  {
+    method: 'post',
+    route: '/api/cavities/:id/plans',
+    action: 'analyses.run',
+    okStatus: 201,
+    request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/plans`, body: { inputs: walkPlanInputs, lenses: [{ lensId: await walkLens(server), zMm: 120 }], note: 'walk' } }),
+  },
+  { method: 'get', route: '/api/plans/:id', action: 'lab.read', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
+  { method: 'delete', route: '/api/plans/:id', action: 'analyses.run', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
+  { method: 'get', route: '/api/analyses/:id/mismatch-family', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/analyses/${await walkDoneAnalysis(server)}/mismatch-family` }) },
 ]
