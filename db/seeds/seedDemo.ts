@@ -6,9 +6,11 @@ import type { Knex } from 'knex'
 import { demoPassword, demoPeople } from '../../shared/auth/demoAccounts'
 import { hashPassword } from '../../server/auth/passwords'
 import { seedDemoLab } from './seedDemoLab'
+import { seedDemoLenses } from './seedDemoLenses'
+import { seedDemoLogbook } from './seedDemoLogbook'
 
 /** Bump when the demo data changes shape, so older demo databases are topped up. */
-export const demoVersion = 3
+export const demoVersion = 5
 
 /** One invented person per role, all with the documented demo password — never in production. */
 async function seedDemoPeople(trx: Knex): Promise<void> {
@@ -28,7 +30,11 @@ export async function seedDemo(knex: Knex): Promise<{ seeded: boolean }> {
       .onConflict('key')
       .ignore()
     await seedDemoPeople(trx)
-    if (process.env.NODE_ENV !== 'production') await seedDemoLab(trx)
+    if (process.env.NODE_ENV !== 'production') {
+      await seedDemoLab(trx)
+      await seedDemoLogbook(trx)
+      await seedDemoLenses(trx)
+    }
     await trx('app_settings')
       .insert({ key: 'demo_version', value: JSON.stringify(demoVersion), updated_at: trx.fn.now() })
       .onConflict('key')
