@@ -38,6 +38,7 @@ export async function startDigestSchedule(
       await fresh.schedule(DIGEST_QUEUE, cron, {}, { tz })
       await fresh.work(DIGEST_QUEUE, { pollingIntervalSeconds: 30 }, async () => {
         const sent = await sendWeeklyDigest({ db: context.db, mailer: context.mailer, baseUrl: context.baseUrl() })
+        if (sent.failed.length > 0) logger.error({ failed: sent.failed }, 'weekly digest could not be sent to some leads')
         logger.info({ recipients: sent.recipients.length }, 'weekly digest sent')
       })
       if (stopped) return void (await fresh.stop({ graceful: false, wait: true }))

@@ -72,8 +72,14 @@ export function renderWeeklyDigest(input: { overview: Overview; entries: LogEntr
   return { subject, text }
 }
 
-/** Build the digest as of `now` and e-mail it to every active lead; returns who got it. */
-export async function sendWeeklyDigest(context: { db: Db; mailer: Mailer; baseUrl: string }, options: { now?: Date } = {}): Promise<{ recipients: string[]; subject: string }> {
+/**
+ * Build the digest as of `now` and e-mail it to every active lead. One refused address does not stop
+ * the others (and the job is not retried for it, which would send the rest twice): it is returned in `failed`.
+ */
+export async function sendWeeklyDigest(
+  context: { db: Db; mailer: Mailer; baseUrl: string },
+  options: { now?: Date } = {},
+): Promise<{ recipients: string[]; failed: Array<{ to: string; error: string }>; subject: string }> {
   const { db, mailer } = context
   /** @default the current time */
   const now = options.now ?? new Date()
@@ -86,9 +92,16 @@ export async function sendWeeklyDigest(context: { db: Db; mailer: Mailer; baseUr
   ])
   const labName = typeof labSetting?.value === 'string' ? labSetting.value : 'your lab'
   const { subject, text } = renderWeeklyDigest({ overview, entries, cavityNames: new Map(cavities.map((row) => [row.id, row.name])), labName, baseUrl: context.baseUrl })
+  const recipients: string[] = []
+  const failed: Array<{ to: string; error: string }> = []
   for (const lead of leads) {
     const mail: OutgoingMail = { to: lead.email, subject, text }
-    await mailer.send(mail)
+    try {
+      await mailer.send(mail)
+      recipients.push(lead.email)
+    } catch (error) {
+      failed.push({ to: lead.email, error: error instanceof Error ? error.message : String(error) })
+    }
   }
-  return { recipients: leads.map((lead) => lead.email), subject }
+  return { recipients, failed, subject }
 }

@@ -186,6 +186,7 @@ describe('alerts, notifications and the weekly digest', () => {
 
     const sent = await sendWeeklyDigest({ db: server.db, mailer: server.mailer, baseUrl: server.url })
     expect(sent.recipients.sort()).toEqual([emails.get(lead), otherLeadEmail].sort())
+    expect(sent.failed).toEqual([])
     expect(await listOutbox(server.db, { to: emails.get(viewer) }).then((mails) => mails.filter((mail) => /digest/.test(mail.subject)))).toHaveLength(0)
 
     const mail = await waitForMail(server.db, emails.get(lead)!, { subject: /weekly digest/ })
