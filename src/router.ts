@@ -22,7 +22,7 @@ declare module 'vue-router' {
 const areaAction = (name: string): Action => appAreas.find((area) => area.name === name)?.action ?? 'lab.read'
 
 const pendingAreas: RouteRecordRaw[] = appAreas
-  .filter((area) => !['overview', 'admin', 'cavities', 'tuning'].includes(area.name))
+  .filter((area) => !['overview', 'admin', 'cavities', 'tuning', 'planner'].includes(area.name))
   .map((area) => ({ path: area.path, name: area.name, component: () => import('./pages/AreaPendingPage.vue'), props: { areaName: area.name }, meta: { action: area.action, title: area.label } }))
 
 export const routes: RouteRecordRaw[] = [
@@ -32,6 +32,10 @@ export const routes: RouteRecordRaw[] = [
   { path: '/cavities/:id', name: 'cavity', component: () => import('./pages/cavities/CavityPage.vue'), props: true, meta: { action: 'lab.read', title: 'Cavity' } },
   { path: '/tuning', name: 'tuning', component: () => import('./pages/tuning/TuningPage.vue'), meta: { action: areaAction('tuning'), title: 'Tuning' } },
   { path: '/tuning/:cavityId', name: 'tuning-cavity', component: () => import('./pages/tuning/TuningPage.vue'), props: true, meta: { action: areaAction('tuning'), title: 'Tuning' } },
+  { path: '/planner', name: 'planner', component: () => import('./pages/planner/PlannerPage.vue'), meta: { action: areaAction('planner'), title: 'Lens planner' } },
+  { path: '/planner/kit', name: 'planner-kit', component: () => import('./pages/planner/LensKitPage.vue'), meta: { action: 'lab.read', title: 'Lens kit' } },
+  { path: '/planner/plans/:id', name: 'planner-plan', component: () => import('./pages/planner/PlanPage.vue'), props: true, meta: { action: 'lab.read', title: 'Lens plan' } },
+  { path: '/planner/:cavityId', name: 'planner-cavity', component: () => import('./pages/planner/PlannerPage.vue'), props: true, meta: { action: areaAction('planner'), title: 'Lens planner' } },
   { path: '/analyses/:id', name: 'analysis', component: () => import('./pages/analyses/AnalysisPage.vue'), props: true, meta: { action: 'lab.read', title: 'Analysis' } },
   { path: '/admin', name: 'admin', component: () => import('./pages/admin/AdminPeoplePage.vue'), meta: { action: 'users.manage', title: 'People' } },
   { path: '/admin/tokens', name: 'admin-tokens', component: () => import('./pages/admin/AdminTokensPage.vue'), meta: { action: 'tokens.manageAll', title: 'API tokens' } },

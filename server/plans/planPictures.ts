@@ -21,10 +21,11 @@ export interface CavityModeOnPath {
   toMm: number
 }
 
-export function beamPathPicture(path: MatchingPath, cavityMode: CavityModeOnPath, lenses: PlacedKitLens[]): BeamPathPicture {
+export function beamPathPicture(path: MatchingPath, cavityMode: CavityModeOnPath, lenses: PlacedKitLens[], arrangementIndex = 0): BeamPathPicture {
   const curve = beamRadiusAlongPath(path.beam, lenses, 0, cavityMode.toMm, PATH_POINTS)
   const mode = beamRadiusAlongPath(cavityMode.beam, [], cavityMode.fromMm, cavityMode.toMm, CAVITY_POINTS)
   return {
+    arrangementIndex,
     lenses,
     zMm: rounded(curve.zMm),
     radiusXMm: rounded(curve.radiusXMm),

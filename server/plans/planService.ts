@@ -85,7 +85,11 @@ export async function planForCavity(db: Db, cavityId: string, request: ParsedPla
   const byLabel = new Map(used.map((lens) => [lens.label, lens]))
   const toPlaced = placed(byLabel)
   const arrangements = plan.arrangements.map((a: Arrangement) => ({ kind: a.kind, lenses: a.lenses.map(toPlaced), coupling: a.coupling, tolerance: a.tolerance }))
-  const pathLenses = arrangements[0]?.lenses ?? []
+  const pathIndex = request.pathArrangement ?? 0
+  if (request.pathArrangement !== undefined && !arrangements[pathIndex]) {
+    throw new HttpError(422, 'no_such_arrangement', `The plan has ${arrangements.length} arrangements; pathArrangement ${pathIndex} is not one of them.`)
+  }
+  const pathLenses = arrangements[pathIndex]?.lenses ?? []
   const mapIndex = request.mapArrangement ?? arrangements.findIndex((a) => a.kind === 'two-lens')
   const mapArrangement = arrangements[mapIndex]
   if (request.mapArrangement !== undefined && mapArrangement?.kind !== 'two-lens') {
@@ -125,7 +129,7 @@ export async function planForCavity(db: Db, cavityId: string, request: ParsedPla
     evaluated: plan.evaluated,
     warnings: [...input.warnings, ...plan.warnings],
     pictures: {
-      path: pathLenses.length > 0 ? beamPathPicture(plan.path, plan.cavityMode, pathLenses) : null,
+      path: pathLenses.length > 0 ? beamPathPicture(plan.path, plan.cavityMode, pathLenses, pathIndex) : null,
       map: mapArrangement?.kind === 'two-lens' ? couplingMapPicture(plan.path, mapArrangement.lenses, mapIndex, request.table) : null,
     },
     computeMs: Math.round(performance.now() - started),

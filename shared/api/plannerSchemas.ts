@@ -146,6 +146,8 @@ export const planRequestSchema = z
     toleranceMm: z.number().finite().positive('toleranceMm must be positive').max(20, 'toleranceMm must be at most 20 mm').default(1),
     /** Plan with these lenses of the kit only; absent = the whole kit. */
     lensIds: z.array(z.uuid({ error: 'lensIds must hold lens ids' })).max(500).optional(),
+    /** Which arrangement the beam-path picture shows (index in the answer's arrangements). @default 0 */
+    pathArrangement: z.number().int().min(0).max(49).optional(),
     /** Which two-lens arrangement the coupling map shows (index in the answer's arrangements); absent = the first two-lens one. */
     mapArrangement: z.number().int().min(0).max(49).optional(),
   })
@@ -191,6 +193,8 @@ export interface PlanArrangement {
 
 /** Beam radius along the path through the lenses, and the cavity eigenmode inside the cavity. */
 export interface BeamPathPicture {
+  /** Index of the arrangement drawn (in the plan answer; 0 for a saved plan). */
+  arrangementIndex: number
   lenses: PlacedKitLens[]
   zMm: number[]
   radiusXMm: number[]
