@@ -24,8 +24,8 @@ import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 const MAX_ORDER = 10
 /** Orders always measured at their predicted places, detected or not (the ones that tell the mode-match). */
 const ALWAYS_MEASURED_ORDERS = 4
-/** An order is reported when its summed height stands this many standard errors above zero. */
-const REPORT_SIGNIFICANCE = 4
+/** An order is reported when its summed height stands this many standard errors above zero (3σ: a chance excess in an empty order is 0.13 %, common practice). */
+const REPORT_SIGNIFICANCE = 3
 
 /**
  * Reads a swept-cavity trace: selects the sweep, finds and measures every resonance, calibrates time to optical
@@ -109,6 +109,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const isFundamental = new Set(comb.members)
   let labels: OrderLabel[]
   let direction: 'up' | 'down' | 'unknown' = 'unknown'
+  let directionEvidence = 'Fewer than two TEM00 resonances: the optical sweep direction is unknown.'
   let gouy = predictedGouy
   let orderResidual: number | null = null
   if (calibration) {
@@ -135,6 +136,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     }
     labels = assignment.labels
     direction = assignment.direction
+    directionEvidence = assignment.directionEvidence
     orderResidual = assignment.residualRmsFsr
   } else {
     labels = measured.map((_, i) =>
@@ -155,7 +157,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
           .filter((d): d is { nu: number; order: number; heightV: number } => d.order !== null && Number.isFinite(d.nu)),
         placementToleranceFsr: Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)),
         firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
-        startSeconds: timeAt(sweep.startIndex), dtSeconds: dt,
+        startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
       })
     : fundamentalOnlyShares(measured, comb.members)
@@ -240,6 +242,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       startTime: timeAt(sweep.startIndex),
       endTime: timeAt(sweep.endIndex - 1),
       evidence: sweep.evidence,
+      directionEvidence,
     },
     calibration: {
       polynomialOrder: calibration?.polynomialOrder ?? 0,
@@ -534,6 +537,8 @@ interface ShareInputs {
   orders: number[]
   firstIndex: number
   lastIndex: number
+  /** TEM00 linewidth in samples. */
+  samplesPerLinewidth: number
   /** Time of the part's first sample and the sample interval, seconds. */
   startSeconds: number
   dtSeconds: number
@@ -648,38 +653,66 @@ function measureOrderShares(input: ShareInputs): Shares {
   // of their neighbours share one Airy width on the calibrated axis, so the finesse comes from all of them and
   // not from TEM00 fits that see the neighbours' wings as baseline. The samples stay the same at every trial
   // (support fixed in FSR), so the residuals compare.
-  // Sidebands closer than a few linewidths blur into the carrier: their power and the width trade off, so both
-  // are refined in turn (coordinate descent) rather than the power taken from the TEM00 fits alone.
-  const fitWith = (f: number, sidebands: ShareInputs['sidebands']) =>
-    fitOrderPowers(y, nu, lines, { finesse: f, sidebands, sigmaV: input.sigmaV, supportLinewidths: (SUPPORT_LINEWIDTHS * f) / finesse, stepFsr, background })
+  // Sideband power is refined too, in turn with the width (coordinate descent): sidebands closer than a few
+  // linewidths blur into the carrier and trade off with the width; farther ones lie outside the TEM00 fits.
+  // The search runs on every k-th sample (about 8 per linewidth pin a width; on long windows down to 4 per
+  // linewidth, keeping it near 30,000 samples); the final fit uses all.
+  const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 30_000)))
+  const every = (a: Float64Array) => {
+    if (stride === 1) return a
+    const out = new Float64Array(Math.ceil(a.length / stride))
+    for (let i = 0, k = 0; i < a.length; i += stride, k++) out[k] = a[i]
+    return out
+  }
+  const coarse = { y: every(y), nu: every(nu), stepFsr: every(stepFsr), background: { x: every(x), degree: 2 } }
+  const fitWith = (f: number, sidebands: ShareInputs['sidebands'], on = coarse) =>
+    fitOrderPowers(on.y, on.nu, lines, {
+      finesse: f,
+      sidebands,
+      sigmaV: input.sigmaV,
+      supportLinewidths: (SUPPORT_LINEWIDTHS * f) / finesse,
+      stepFsr: on.stepFsr,
+      background: on.background,
+      residualOnly: on === coarse,
+    })
   let sidebands = input.sidebands
-  let fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.8 * finesse, 1.25 * finesse, 14)
-  if (sidebands && sidebands.offsetFsr * finesse < 3) {
+  let fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.85 * finesse, 1.18 * finesse, 11)
+  if (sidebands) {
     for (let round = 0; round < 2; round++) {
       const base: { offsetFsr: number; ratio: number } = sidebands
-      const ratio = goldenSectionMinimum((r) => fitWith(fittedFinesse, { ...base, ratio: r - 1e-3 }).reducedChiSquare, 1e-3, 2 * base.ratio + 0.1, 14) - 1e-3
+      const ratio = goldenSectionMinimum((r) => fitWith(fittedFinesse, { ...base, ratio: r - 1e-3 }).reducedChiSquare, 1e-3, 2 * base.ratio + 0.1, 11) - 1e-3
       sidebands = { ...base, ratio: Math.max(0, ratio) }
-      fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.8 * finesse, 1.25 * finesse, 14)
+      fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.85 * finesse, 1.18 * finesse, 11)
     }
   }
-  const fit = fitWith(fittedFinesse, sidebands)
+  const fit = fitWith(fittedFinesse, sidebands, { y, nu, stepFsr, background })
   const useHeight = input.preferHeight && fit.reducedChiSquare <= MAX_LINE_CHI_SQUARE
   const m = lines.length
-  const sums = new Map<number, { value: number; variance: number }>()
+  // Per order: the summed heights with their covariance (the matched filter: the best detector in white noise)
+  // and the summed areas with their own errors (areas of separate windows taken as independent, common practice).
+  const sums = new Map<number, { value: number; variance: number; heightSum: number; heightVariance: number }>()
   for (const order of input.orders) {
-    let value = 0
-    let variance = 0
+    let heightSum = 0
+    let heightVariance = 0
+    let areaSum = 0
+    let areaVariance = 0
     for (let j = 0; j < m; j++) {
       if (!lines[j].counted || lines[j].order !== order) continue
-      value += useHeight ? fit.lines[j].heightV : fit.lines[j].areaHeightV
-      for (let l = 0; l < m; l++) if (lines[l].counted && lines[l].order === order) variance += fit.covariance[j * m + l]
+      heightSum += fit.lines[j].heightV
+      for (let l = 0; l < m; l++) if (lines[l].counted && lines[l].order === order) heightVariance += fit.covariance[j * m + l]
+      areaSum += fit.lines[j].areaHeightV
+      areaVariance += fit.lines[j].areaHeightErrorV ** 2
     }
-    sums.set(order, { value, variance })
+    sums.set(order, useHeight
+      ? { value: heightSum, variance: heightVariance, heightSum, heightVariance }
+      : { value: areaSum, variance: areaVariance, heightSum, heightVariance })
   }
-  // Report an order when its power stands clearly out of the noise (always TEM00).
+  // Report an order (always TEM00) when the lines at its places stand out of the noise by the matched filter or
+  // by their area, and the measure used is positive.
+  const significant = (value: number, variance: number) => value > REPORT_SIGNIFICANCE * Math.sqrt(Math.max(variance, 0))
   const reported = input.orders.filter((order) => {
     const s = sums.get(order)!
-    return order === 0 ? s.value > 0 : s.value > REPORT_SIGNIFICANCE * Math.sqrt(Math.max(s.variance, 0)) && s.value > 0
+    return order === 0 ? s.value > 0 : s.value > 0 && (significant(s.heightSum, s.heightVariance) || significant(s.value, s.variance))
   })
   let total = 0
   for (const order of reported) total += sums.get(order)!.value

@@ -51,6 +51,8 @@ export const analysisResultSchema = z.object({
     startTime: z.number(),
     endTime: z.number(),
     evidence: z.string(),
+    /** What decided the optical sweep direction (the order pattern, or the prior that low orders are stronger); absent in results stored before it was reported. */
+    directionEvidence: z.string().optional(),
   }),
   calibration: z.object({
     polynomialOrder: z.number().int(),

@@ -43,6 +43,8 @@ export interface OrderAssignment {
   measuredGouyRad: number
   /** Weighted RMS residual of the carrier matches, FSR units. */
   residualRmsFsr: number
+  /** What decided the direction, in one sentence. */
+  directionEvidence: string
 }
 
 /**
@@ -61,7 +63,8 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     allowedOrders,
   } = options
   const orders = allowedOrders ?? Array.from({ length: maxOrder + 1 }, (_, k) => k)
-  let best: (OrderAssignment & { score: number }) | null = null
+  let best: (Omit<OrderAssignment, 'directionEvidence'> & { score: number; positionScore: number }) | null = null
+  const positionScores: number[] = []
   for (const direction of ['up', 'down'] as const) {
     const positions = peaks.map((p) => (direction === 'up' ? frac(p.positionFsr) : frac(-p.positionFsr)))
     let gouy = predictedGouyRad
@@ -72,11 +75,13 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     }
     labels = matchAll(peaks, positions, gouy, { maxOrder, orders, tolerance: toleranceFsr, sidebandOffsetFsr, sidebandMaxOrder })
     let score = 0
+    let positionScore = 0
     let ss = 0
     let ws = 0
     for (let i = 0; i < peaks.length; i++) {
       const l = labels[i]
       if (l.kind === 'unassigned' || peaks[i].fundamental) continue
+      positionScore += peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))
       // A mirrored spectrum also fits with ψ → π − ψ and high orders: prefer low orders and a small ψ change.
       score += (peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))) / (1 + 0.1 * (l.order ?? 0))
       ss += peaks[i].weight * l.residualFsr ** 2
@@ -84,11 +89,22 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     }
     // (Scaled no finer than 0.5 % of ψ: under a tight bound the small shift left says nothing about direction.)
     if (maxGouyShiftRad > 0) score *= Math.exp(-(((gouy - predictedGouyRad) / Math.max(0.5 * maxGouyShiftRad, 0.005 * predictedGouyRad)) ** 2))
-    const candidate = { labels, direction, measuredGouyRad: gouy, residualRmsFsr: ws > 0 ? Math.sqrt(ss / ws) : 0, score }
+    positionScores.push(positionScore)
+    const candidate = { labels, direction, measuredGouyRad: gouy, residualRmsFsr: ws > 0 ? Math.sqrt(ss / ws) : 0, score, positionScore }
     if (!best || candidate.score > best.score) best = candidate
   }
-  const { labels, direction, measuredGouyRad, residualRmsFsr } = best!
-  return { labels, direction, measuredGouyRad, residualRmsFsr }
+  const { labels, direction, measuredGouyRad, residualRmsFsr, positionScore } = best!
+  const other = Math.min(...positionScores.filter((_, k) => k !== (direction === 'up' ? 0 : 1)))
+  const meaning = direction === 'up' ? 'optical frequency rises with time' : 'optical frequency falls with time'
+  let directionEvidence: string
+  if (positionScore === 0 && other === 0) {
+    directionEvidence = `No transverse resonance was matched in either direction: ${direction} (${meaning}) is a default, not a finding.`
+  } else if (positionScore > 1.1 * other) {
+    directionEvidence = `The transverse resonances sit at their predicted places for ${direction} (${meaning}); the mirrored pattern matches ${positionScore > 0 ? Math.round((100 * other) / positionScore) : 0} % as much resonance height.`
+  } else {
+    directionEvidence = `The transverse resonances fit both directions about equally by position (a Gouy phase near a simple fraction of π makes the pattern nearly symmetric); ${direction} (${meaning}) was chosen because it gives the stronger resonances the lower orders, which carry more power in a reasonably matched cavity, and keeps the Gouy phase nearer the prediction.`
+  }
+  return { labels, direction, measuredGouyRad, residualRmsFsr, directionEvidence }
 }
 
 interface MatchSettings {

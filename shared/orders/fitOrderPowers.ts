@@ -30,6 +30,11 @@ export interface FitOrderPowersOptions {
    * fitted with the lines (slow drift of the dark level). Without it the background is one constant. @default null
    */
   background?: { x: Float64Array; degree: number } | null
+  /**
+   * Only the heights and χ² (from the normal equations: RSS = yᵀy − βᵀAᵀy), no covariance and no area pass: for
+   * searches that call the fit many times. @default false
+   */
+  residualOnly?: boolean
 }
 
 export interface LinePower {
@@ -66,7 +71,7 @@ export interface OrderPowerFit {
  * power ratios. A second pass sums the data in a window about each line (neighbours removed) for the area measure.
  */
 export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: PredictedLine[], options: FitOrderPowersOptions): OrderPowerFit {
-  const { finesse, sidebands = null, sigmaV, supportLinewidths = 15, areaLinewidths = 6, stepFsr = null, background = null } = options
+  const { finesse, sidebands = null, sigmaV, supportLinewidths = 15, areaLinewidths = 6, stepFsr = null, background = null, residualOnly = false } = options
   if (nu.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and nu must have the same length')
   if (stepFsr && stepFsr.length !== signalV.length) throw new EngineError('invalid_argument', 'signalV and stepFsr must have the same length')
   if (!(finesse > 1)) throw new EngineError('invalid_argument', `finesse must be above 1, got ${finesse}`)
@@ -89,7 +94,8 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   // Pass 1: normal equations over the samples within reach of some line, plus the constant level.
   const ata = new Float64Array(p * p)
   const aty = new Float64Array(p)
-  const used = accumulateNormalEquations(signalV, nu, backgroundX, terms, sortedNu, sortedOrder, support, shape, ata, aty)
+  const squares = new Float64Array(1)
+  const used = accumulateNormalEquations(signalV, nu, backgroundX, terms, sortedNu, sortedOrder, support, shape, ata, aty, squares)
   const observed = lines.map((_, j) => ata[j * p + j] > 0)
   for (let j = 0; j < p; j++) {
     if (!(ata[j * p + j] > 0)) { ata[j * p + j] = 1; aty[j] = 0 }
@@ -99,6 +105,17 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   const heights = solution.subarray(0, m)
   const backgroundV = solution.subarray(m, p)
   const offsetV = solution[m]
+  if (residualOnly) {
+    let explained = 0
+    for (let j = 0; j < p; j++) explained += solution[j] * aty[j]
+    const rssQuick = Math.max(0, squares[0] - explained)
+    return {
+      lines: lines.map((_, j) => ({ heightV: observed[j] ? heights[j] : 0, heightErrorV: Infinity, areaHeightV: 0, areaHeightErrorV: Infinity, observed: observed[j] })),
+      offsetV,
+      reducedChiSquare: used > p ? rssQuick / (sigmaV * sigmaV * (used - p)) : NaN,
+      covariance: new Float64Array(0),
+    }
+  }
 
   // Covariance σ²(AᵀA)⁻¹ for the line heights.
   const covariance = new Float64Array(m * m)
@@ -157,6 +174,7 @@ function accumulateNormalEquations(
   shape: LineShape,
   ata: Float64Array,
   aty: Float64Array,
+  squares: Float64Array,
 ): number {
   const n = signalV.length
   const m = sortedNu.length
@@ -187,6 +205,7 @@ function accumulateNormalEquations(
       count++
     }
     used++
+    squares[0] += y * y
     for (let a = 0; a < count; a++) {
       const ra = active[a] * p
       const va = values[a]

@@ -41,6 +41,15 @@ describe('real trace: plano-concave, L = 150 mm = R/2', () => {
     // A refined Gouy phase stays within its bound of the prediction (3 %), not wandering to explain noise.
     expect(Math.abs(result.gouy.measuredOneWayRad! / (Math.PI / 4) - 1)).toBeLessThanOrEqual(0.03 + 1e-9)
   })
+  it('when ψ = π/4 makes the order pattern symmetric then the direction is said to rest on the low-order prior, not on positions', () => {
+    // Offsets N·ψ/π mod 1 = 0.25, 0.5, 0.75 mirror onto themselves (orders 1 and 3 swap) when the sweep is reversed
+    // (Siegman, "Lasers" (1986), ch. 19); a rising ramp may lengthen or shorten the cavity, so positions cannot decide.
+    expect(result.sweep.direction).toBe('down')
+    expect(result.sweep.directionEvidence).toMatch(/both directions about equally/)
+    // The strong transverse family sits about a quarter FSR before each TEM00 in time: order 1 when frequency falls.
+    expect(result.orders['1']).toBeGreaterThan(0.05)
+    expect(result.orders['3'] ?? 0).toBeLessThan(result.orders['1'])
+  })
   it('when the peaks are 4–7 samples wide and heights vary threefold then it warns of both', () => {
     expect(codes).toContain('undersampled')
     expect(codes).toContain('unsteady_fundamental')

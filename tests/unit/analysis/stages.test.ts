@@ -116,6 +116,8 @@ describe('findFundamentals and assignOrders', () => {
     const result = assignOrders(placed, psi)
     expect(result.direction).toBe('down')
     expect(result.labels.map((l) => l.order)).toEqual([1, 2, 3, 0])
+    // ψ = 0.6 is no simple fraction of π: the positions alone decide, and the result says so.
+    expect(result.directionEvidence).toMatch(/sit at their predicted places for down/)
   })
   it('when a peak sits at f_mod/FSR beside TEM00 then it is labelled a sideband, not a carrier', () => {
     const placed = [
