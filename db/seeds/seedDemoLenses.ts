@@ -62,7 +62,7 @@ export async function seedDemoLenses(knex: Knex): Promise<void> {
     table: { laserToCavityMm: 700, lensZonesMm: [[80, 300], [350, 620]], minSpacingMm: 25, positionStepMm: 1 },
     couplingTarget: 0.98,
   })
-  const answer = await planForCavity(knex, cavity.id as string, inputs)
+  const answer = await planForCavity(knex, cavity.id as string, inputs, { inThread: false })
   const best = answer.arrangements.find((a) => a.kind === 'two-lens') ?? answer.arrangements[0]
   if (!best) return
   await savePlan(

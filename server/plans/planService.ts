@@ -2,26 +2,8 @@
  * Mode-matching planner use cases: plan a cavity's input optics from the lab's kit (a pure computation), save,
  * list, read and delete plans, and read an analysis's order-2 share as the family of waist errors it allows.
  */
-import {
-  cavityEigenmodeBeam,
-  createInputBeam,
-  lensPositionTolerance,
-  mismatchFamily,
-  planModeMatching,
-  type Arrangement,
-  type Beam,
-  type KitLens,
-  type MatchingPath,
-} from '../../shared/beam'
-import type {
-  Lens,
-  MismatchFamilyAnswer,
-  ParsedPlanRequest,
-  PlacedKitLens,
-  PlanAnswer,
-  PlannerBeam,
-  SavedPlan,
-} from '../../shared/api/plannerSchemas'
+import { cavityEigenmodeBeam, lensPositionTolerance, mismatchFamily, type Beam, type MatchingPath } from '../../shared/beam'
+import type { Lens, MismatchFamilyAnswer, ParsedPlanRequest, PlacedKitLens, PlanAnswer, SavedPlan } from '../../shared/api/plannerSchemas'
 import type { planSaveSchema } from '../../shared/api/plannerSchemas'
 import type { CavityGeometry } from '../../shared/cavity'
 import type { z } from 'zod'
@@ -31,7 +13,9 @@ import { geometryOf, getCavity } from '../cavities/cavityService'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { listLenses } from '../lenses/lensRepository'
+import { computePlanAnswer, resolveBeam } from './computePlanAnswer'
 import { beamPathPicture, couplingMapPicture, round6 } from './planPictures'
+import { computePlanInThread } from './planPool'
 import { deletePlan, findPlan, insertPlan, listPlansOfCavity, newestPlanOfCavity } from './planRepository'
 
 type ParsedPlanSave = z.infer<typeof planSaveSchema>
@@ -58,82 +42,20 @@ export function usableKit(lenses: readonly Lens[], wavelengthNm: number, lensIds
   return { used, left }
 }
 
-function resolveBeam(spec: PlannerBeam, wavelengthNm: number) {
-  return createInputBeam({ ...spec, wavelengthNm: spec.wavelengthNm ?? wavelengthNm })
-}
-
-const placed = (byLabel: Map<string, Lens>) => (lens: { id?: string; focalLengthMm: number; zMm: number }): PlacedKitLens => {
-  const kit = lens.id === undefined ? undefined : byLabel.get(lens.id)
-  return { lensId: kit?.id ?? null, label: kit?.label ?? `f = ${round6(lens.focalLengthMm)} mm`, type: kit?.type ?? null, focalLengthMm: lens.focalLengthMm, zMm: round6(lens.zMm) }
-}
-
-export async function planForCavity(db: Db, cavityId: string, request: ParsedPlanRequest): Promise<PlanAnswer> {
-  const started = performance.now()
+/**
+ * Plan the cavity's input optics from the lab's kit. The search runs in a worker thread unless `inThread` is false
+ * (the demo seed, which runs outside a server).
+ */
+export async function planForCavity(db: Db, cavityId: string, request: ParsedPlanRequest, options: { inThread?: boolean } = {}): Promise<PlanAnswer> {
+  const { inThread = true } = options
   const cavity = await getCavity(db, cavityId)
-  const geometry = geometryOf(cavity)
   const { used, left } = usableKit(await listLenses(db), cavity.wavelengthNm, request.lensIds)
   if (used.length === 0) {
     const why = left.length === 0 ? 'The lens kit is empty: add the lenses the lab has on the Lens kit page before planning.' : `None of the kit's lenses can be used here (${left.slice(0, 5).map((l) => `${l.label}: ${l.reason}`).join('; ')}${left.length > 5 ? '; …' : ''}).`
     throw new HttpError(422, 'empty_kit', why)
   }
-  const input = resolveBeam(request.beam, cavity.wavelengthNm)
-  const kit: KitLens[] = used.map((lens) => ({ id: lens.label, focalLengthMm: lens.focalLengthMm, count: lens.count }))
-  const plan = planModeMatching(
-    { cavity: geometry, beam: input.beam, kit, table: request.table },
-    { couplingTarget: request.couplingTarget, rankBy: request.rankBy, toleranceMm: request.toleranceMm },
-  )
-  const byLabel = new Map(used.map((lens) => [lens.label, lens]))
-  const toPlaced = placed(byLabel)
-  const arrangements = plan.arrangements.map((a: Arrangement) => ({ kind: a.kind, lenses: a.lenses.map(toPlaced), coupling: a.coupling, tolerance: a.tolerance }))
-  const pathIndex = request.pathArrangement ?? 0
-  if (request.pathArrangement !== undefined && !arrangements[pathIndex]) {
-    throw new HttpError(422, 'no_such_arrangement', `The plan has ${arrangements.length} arrangements; pathArrangement ${pathIndex} is not one of them.`)
-  }
-  const pathLenses = arrangements[pathIndex]?.lenses ?? []
-  const mapIndex = request.mapArrangement ?? arrangements.findIndex((a) => a.kind === 'two-lens')
-  const mapArrangement = arrangements[mapIndex]
-  if (request.mapArrangement !== undefined && mapArrangement?.kind !== 'two-lens') {
-    throw new HttpError(422, 'not_two_lens', `Arrangement ${request.mapArrangement} is not a two-lens arrangement; the coupling map needs two lenses.`)
-  }
-  const fitSummary = (fit: NonNullable<typeof input.fits>['x']) => ({
-    waistRadiusMm: fit.waistRadiusMm,
-    waistPositionMm: fit.waistPositionMm,
-    m2: fit.m2,
-    rayleighRangeMm: fit.rayleighRangeMm,
-    uncertainty: fit.uncertainty,
-    residualsMm: fit.residualsMm,
-    reducedChiSquare: fit.reducedChiSquare,
-    uncertaintySource: fit.uncertaintySource,
-  })
-  const { target } = plan
-  return {
-    cavity: { id: cavity.id, name: cavity.name, wavelengthNm: cavity.wavelengthNm },
-    beam: input.beam,
-    fits: input.fits ? { x: fitSummary(input.fits.x), y: fitSummary(input.fits.y) } : null,
-    target: {
-      waistRadiusMm: target.waistRadiusMm,
-      waistFromEntranceMm: target.waistFromEntranceMm,
-      rayleighRangeMm: target.rayleighRangeMm,
-      insideWaistRadiusMm: target.insideWaistRadiusMm,
-      insideWaistFromMirror1Mm: target.insideWaistFromMirror1Mm,
-    },
-    kit: { used: used.length, left },
-    arrangements,
-    ideal: {
-      singleLens: plan.ideal.singleLens ? { ...plan.ideal.singleLens.lens, coupling: plan.ideal.singleLens.coupling } : null,
-      twoLens: plan.ideal.twoLens.map((s) => ({ lenses: s.lenses.map((l) => ({ focalLengthMm: l.focalLengthMm, zMm: l.zMm })), coupling: s.coupling, worstCoupling: s.worstCoupling })),
-    },
-    couplingTarget: plan.couplingTarget,
-    reachesTarget: plan.reachesTarget,
-    verdict: plan.verdict,
-    evaluated: plan.evaluated,
-    warnings: [...input.warnings, ...plan.warnings],
-    pictures: {
-      path: pathLenses.length > 0 ? beamPathPicture(plan.path, plan.cavityMode, pathLenses, pathIndex) : null,
-      map: mapArrangement?.kind === 'two-lens' ? couplingMapPicture(plan.path, mapArrangement.lenses, mapIndex, request.table) : null,
-    },
-    computeMs: Math.round(performance.now() - started),
-  }
+  const computation = { cavity: { id: cavity.id, name: cavity.name, wavelengthNm: cavity.wavelengthNm }, geometry: geometryOf(cavity), used, left, request }
+  return inThread ? computePlanInThread(computation) : computePlanAnswer(computation)
 }
 
 /** The matching path and the cavity mode on it, from a beam, a geometry and the laser-to-cavity distance. */

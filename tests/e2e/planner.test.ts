@@ -62,6 +62,29 @@ describe('the lens planner in a real browser', () => {
     expect(statSync(await browser.screenshot('planner')).size).toBeGreaterThan(20_000)
   })
 
+  it('when the beam is given as measured radii then the fitted waist, its uncertainty and the solutions show', async () => {
+    const { page } = browser
+    // Radii from the ISO 11146-1 hyperbola w(z)² = w0² + (λ/(π w0))² (z − z0)² for w0 = 300 µm at z0 = 150 mm,
+    // M² = 1 (invented beam), rounded to 0.01 µm as a profiler would print them.
+    const w0Mm = 0.3
+    const zRMm = (Math.PI * w0Mm * w0Mm) / 1064e-6
+    const zMm = [0, 60, 120, 180, 240, 300]
+    await page.getByTestId('beam-kind').getByText('Measured radii').click()
+    for (const [index, z] of zMm.entries()) {
+      const radiusUm = 1000 * w0Mm * Math.sqrt(1 + ((z - 150) / zRMm) ** 2)
+      await page.locator(`#measured-z-${index}`).fill(String(z))
+      await page.locator(`#measured-x-${index}`).fill(radiusUm.toFixed(2))
+      await page.locator(`#measured-x-${index}`).press('Tab')
+    }
+    await page.getByTestId('find-lenses').click()
+    await page.getByTestId('beam-fit').waitFor({ timeout: 30_000 })
+    const fit = await page.getByTestId('beam-fit').innerText()
+    expect(fit).toMatch(/300(\.\d)? µm ± /)
+    expect(fit).toMatch(/150(\.\d)? mm ± /)
+    expect(await page.getByTestId('plan-solutions').locator('tbody tr').count()).toBeGreaterThanOrEqual(5)
+    expect(statSync(await browser.screenshot('planner-measured')).size).toBeGreaterThan(20_000)
+  })
+
   it('when another arrangement is picked then the pictures follow it, and it can be saved and printed', async () => {
     const { page } = browser
     const rows = page.getByTestId('plan-solutions').locator('tbody tr')

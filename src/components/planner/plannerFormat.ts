@@ -27,3 +27,10 @@ export function formatUm(valueMm: number | null | undefined, digits = 1): string
   if (valueMm == null || !Number.isFinite(valueMm)) return '—'
   return `${Number((valueMm * 1000).toFixed(digits))} µm`
 }
+
+/** An uncertainty with two significant digits (so a tiny one does not print as 0), in mm or, with `unit: 'um'`, µm. */
+export function formatUncertainty(valueMm: number | null | undefined, unit: 'mm' | 'um' = 'mm'): string {
+  if (valueMm == null || !Number.isFinite(valueMm)) return '—'
+  const value = unit === 'um' ? valueMm * 1000 : valueMm
+  return `${value === 0 ? '0' : String(Number(value.toPrecision(2)))} ${unit === 'um' ? 'µm' : 'mm'}`
+}
