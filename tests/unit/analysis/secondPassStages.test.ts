@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { smoothSignal } from '../../../shared/peaks/smoothSignal'
 import { estimateNoise } from '../../../shared/peaks/estimateNoise'
+import { estimateBaseline } from '../../../shared/peaks/estimateBaseline'
+import { assignOrders } from '../../../shared/orders/assignOrders'
 import { fitResonanceShape } from '../../../shared/peaks/fitResonanceShape'
 import { calibrateSweep, frequencyAt } from '../../../shared/calibration/calibrateSweep'
 import { calibrateWithOrders, type OrderedPoint } from '../../../shared/calibration/calibrateWithOrders'
@@ -267,5 +269,75 @@ describe('findSweepInData', () => {
   it('when every tall peak has the same width, or there are fewer than three, then the whole record is used', () => {
     expect(findSweepInData(wide, 600)).toMatchObject({ startIndex: 0, endIndex: 600, segmentCount: 0 })
     expect(findSweepInData(wide.slice(0, 2), 600)).toMatchObject({ startIndex: 0, endIndex: 600 })
+  })
+})
+
+describe('estimateBaseline drift', () => {
+  it('when the dark level drifts by 20σ across the record then the baseline follows it', () => {
+    const g = gaussian(21)
+    const n = 16_000
+    const y = Float64Array.from({ length: n }, (_, i) => 0.1 + (0.2 * i) / n + 0.01 * g())
+    const { baselineV } = estimateBaseline(y, 0.01)
+    expect(baselineV[500]).toBeCloseTo(0.1 + (0.2 * 500) / n, 2)
+    expect(baselineV[n - 500]).toBeCloseTo(0.1 + (0.2 * (n - 500)) / n, 2)
+  })
+  it('when resonance wings raise some blocks by less than 4σ then one constant level is used', () => {
+    // Wide Airy wings (finesse 20) fill the blocks near each line: that is light, not drift (common practice).
+    const g = gaussian(22)
+    const n = 16_000
+    const y = Float64Array.from({ length: n }, (_, i) => 0.05 + 0.01 * g() + airy((i - 2000) / 4000, 20))
+    const { baselineV, darkLevelV } = estimateBaseline(y, 0.01)
+    expect(baselineV.every((v) => v === darkLevelV)).toBe(true)
+    // The level comes from the side below the median; what lifts it is the light that is everywhere: the Airy
+    // floor 1/(1 + (2𝓕/π)²) = 0.006 at 𝓕 = 20 (Born & Wolf, "Principles of Optics", §7.6) and the wings above it.
+    expect(darkLevelV).toBeGreaterThan(0.05)
+    expect(darkLevelV - 0.05).toBeLessThan(0.015)
+  })
+})
+
+describe('assignOrders sidebands', () => {
+  it('when a resonance sits where a sideband would be but no stronger carrier is beside it then it is a carrier', () => {
+    // A sideband sits one modulation frequency from its own, stronger carrier (Black, Am. J. Phys. 69, 79 (2001)).
+    const psi = 0.3 * Math.PI
+    const placed = [
+      { positionFsr: 0, weight: 1, fundamental: true },
+      { positionFsr: 0.305, weight: 0.3, fundamental: false },
+      { positionFsr: 1, weight: 1, fundamental: true },
+    ]
+    const result = assignOrders(placed, psi, { sidebandOffsetFsr: 0.004, toleranceFsr: 0.02, maxGouyShiftRad: 0 })
+    expect(result.labels[1]).toMatchObject({ kind: 'carrier', order: 1 })
+  })
+})
+
+describe('fitOrderPowers background and quick mode', () => {
+  const finesse = 100
+  const nu = Float64Array.from({ length: 4001 }, (_, i) => i / 2000)
+  const x = Float64Array.from(nu, (v) => v - 1)
+  const lines: PredictedLine[] = [
+    { nu: 0.50013, order: 0, counted: true },
+    { nu: 1.50013, order: 0, counted: true },
+  ]
+  const line = (v: number, centre: number) => (Math.abs(v - centre) <= 0.15 ? airy(v - centre, finesse) : 0)
+  // A quadratic drift of the dark level under two lines.
+  const y = Float64Array.from(nu, (v, i) => 0.02 + 0.01 * x[i] + 0.005 * x[i] * x[i] + line(v, 0.50013) + 0.8 * line(v, 1.50013))
+
+  it('when the dark level drifts quadratically then a degree-2 background gives the heights back exactly', () => {
+    const fit = fitOrderPowers(y, nu, lines, { finesse, sigmaV: 1e-3, background: { x, degree: 2 } })
+    expect(fit.lines[0].heightV).toBeCloseTo(1, 9)
+    expect(fit.lines[1].heightV).toBeCloseTo(0.8, 9)
+    expect(fit.offsetV).toBeCloseTo(0.02, 9)
+    // A constant alone cannot follow the drift.
+    const flat = fitOrderPowers(y, nu, lines, { finesse, sigmaV: 1e-3 })
+    expect(Math.abs(flat.lines[1].heightV - 0.8)).toBeGreaterThan(1e-3)
+  })
+  it('when only residuals are asked for then χ² matches the full fit (RSS = yᵀy − βᵀAᵀy)', () => {
+    // Normal-equation identity of linear least squares (Press et al., "Numerical Recipes", §15.4).
+    const g = gaussian(9)
+    const noisy = Float64Array.from(y, (v) => v + 0.01 * g())
+    const options = { finesse: 97, sigmaV: 0.01, background: { x, degree: 2 } }
+    const full = fitOrderPowers(noisy, nu, lines, options)
+    const quick = fitOrderPowers(noisy, nu, lines, { ...options, residualOnly: true })
+    expect(quick.reducedChiSquare).toBeCloseTo(full.reducedChiSquare, 8)
+    expect(quick.lines[0].heightV).toBeCloseTo(full.lines[0].heightV, 12)
   })
 })
