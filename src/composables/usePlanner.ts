@@ -2,7 +2,7 @@
  * The planner's answer for one cavity: `run(request)` asks the server for ranked lens arrangements and the
  * pictures (a new run aborts the one in flight); `save(...)` stores a chosen arrangement as a plan.
  */
-import { onScopeDispose, shallowRef, toValue, type MaybeRefOrGetter } from 'vue'
+import { onScopeDispose, shallowRef, toValue, watch, type MaybeRefOrGetter } from 'vue'
 import { planCavity, savePlan, type PlanAnswer, type PlanRequest, type PlanSave, type SavedPlan } from '../api/planner'
 import type { ApiError } from '../api/client'
 import type { ResourceState } from './useApiResource'
@@ -46,6 +46,17 @@ export function usePlanner(cavityId: MaybeRefOrGetter<string | null | undefined>
     return runAction(saving, () => savePlan(id, { inputs: { ...inputs, pathArrangement: undefined, mapArrangement: undefined }, lenses, note }))
   }
 
+  // Another cavity: the answer and its request belong to the old one.
+  watch(
+    () => toValue(cavityId),
+    () => {
+      controller?.abort()
+      answer.value = null
+      request.value = null
+      error.value = null
+      state.value = 'idle'
+    },
+  )
   onScopeDispose(() => controller?.abort())
   return { answer, request, error, state, saving, run, save }
 }

@@ -8,12 +8,14 @@ import { statSync } from 'node:fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { demoPassword, demoPeople } from '../../shared/auth/demoAccounts'
 import { launchBrowser, type TestBrowser } from '../support/browser'
+import { writeTempFile } from '../support/traceFiles'
 import { startTestServer, type TestServer } from '../support/testServer'
 
 describe('the lens planner in a real browser', () => {
   let server: TestServer
   let browser: TestBrowser
   const experimenter = demoPeople.find((person) => person.role === 'experimenter')!
+  const technician = demoPeople.find((person) => person.role === 'technician')!
 
   beforeAll(async () => {
     server = await startTestServer({}, { seedDemo: true })
@@ -117,6 +119,34 @@ describe('the lens planner in a real browser', () => {
     expect(await page.getByTestId('kit-export').getAttribute('href')).toBe('/api/lenses.csv')
     expect(await page.getByTestId('kit-add').count()).toBe(0)
     expect(statSync(await browser.screenshot('planner-kit')).size).toBeGreaterThan(10_000)
+  })
+
+  it('when the demo technician edits the kit then a lens added in the dialog and a CSV import show, and a bad CSV names its line', async () => {
+    const second = await launchBrowser()
+    try {
+      const { page } = second
+      await page.goto(`${server.url}/sign-in?next=/planner/kit`)
+      await page.getByTestId('sign-in-email').fill(technician.email)
+      await page.locator('#sign-in-password').fill(demoPassword)
+      await page.getByTestId('sign-in-submit').click()
+      await page.getByTestId('lens-table').getByText('PCX-100', { exact: true }).waitFor()
+      await page.getByTestId('kit-add').click()
+      await page.getByTestId('lens-label').fill('E2E-88')
+      await page.locator('#lens-focal').fill('88')
+      await page.locator('#lens-focal').press('Tab')
+      await page.getByTestId('lens-save').click()
+      await page.getByTestId('lens-table').getByText('E2E-88', { exact: true }).waitFor()
+
+      await page.getByTestId('kit-import-file').setInputFiles(writeTempFile('kit-import.csv', 'label,focal_length_mm,count\nE2E-IMP,-60,2\n'))
+      expect(await page.getByTestId('kit-notice').innerText()).toContain('1 lens added, 0 updated')
+      await page.getByTestId('lens-table').getByText('E2E-IMP', { exact: true }).waitFor()
+      await page.getByTestId('kit-import-file').setInputFiles(writeTempFile('kit-bad.csv', 'label,focal_length_mm\nE2E-BAD,zero\n'))
+      await page.getByTestId('kit-notice').getByText('line 2').waitFor()
+      expect(await page.getByTestId('kit-notice').innerText()).toContain('Nothing was imported')
+      expect(statSync(await second.screenshot('planner-kit-technician')).size).toBeGreaterThan(10_000)
+    } finally {
+      await second.close()
+    }
   })
 
   it('when the cavity page is opened then its lens plans are listed, the demo plan among them', async () => {
