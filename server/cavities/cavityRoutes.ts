@@ -1,7 +1,7 @@
 /** Cavity routes: list, create, read (with the computed card), edit, history, live events. */
 import { Router } from 'express'
 import { z } from 'zod'
-import { cavityInputSchema, cavityPatchSchema } from '../../shared/api/cavitySchemas'
+import { cavityInputSchema, cavityPatchSchema, historyQuerySchema } from '../../shared/api/cavitySchemas'
 import { listCavityHistory } from '../analyses/analysisRepository'
 import { requirePermission } from '../auth/requirePermission'
 import type { AppContext } from '../app'
@@ -9,11 +9,6 @@ import { HttpError } from '../http/errors'
 import { createCavity, editCavity, getCavity, getCavityWithModel, listCavities } from './cavityService'
 
 const idSchema = z.uuid({ error: 'is not a valid id' })
-const historyQuerySchema = z.object({
-  from: z.coerce.date({ error: 'from must be a date (ISO 8601)' }).optional(),
-  to: z.coerce.date({ error: 'to must be a date (ISO 8601)' }).optional(),
-  limit: z.coerce.number().int().min(1).max(5000).optional(),
-})
 
 /** Parse a route id, answering 404 (not 500) for ids that cannot exist. */
 export function parseId(value: unknown, what: string): string {

@@ -24,30 +24,19 @@
  * Figures = { analysisId, createdAt, fundamentalFraction, finesse, linewidthHz }: the nearest done analysis of the
  * cavity strictly before / after `occurredAt` (by the analysis time the history uses).
  */
-import { Router, type RequestHandler } from 'express'
-import multer from 'multer'
+import { Router } from 'express'
 import { logEntryInputSchema, logEntryPatchSchema, logEntryQuerySchema, logKindInputSchema } from '../../shared/api/logbookSchemas'
 import { traceUploadFieldsSchema } from '../../shared/api/cavitySchemas'
 import { requireActor } from '../auth/actor'
 import { requirePermission } from '../auth/requirePermission'
 import type { AppContext } from '../app'
 import { parseId } from '../cavities/cavityRoutes'
-import { HttpError } from '../http/errors'
+import { receiveTraceFiles, uploadedFiles } from '../traces/receiveTraceFiles'
 import { addLogKind, createLogEntry, editLogEntry, getLogEntry, listLogEntries, listLogKinds, removeLogEntry, uploadEntryTraces } from './logbookService'
-
-const MAX_FILES = 20
 
 export function logbookRoutes(context: AppContext): Router {
   const { db, config } = context
   const router = Router()
-  const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: Math.round(config.UPLOAD_LIMIT_MB * 1024 * 1024), files: MAX_FILES, fields: 10 } }).array('file', MAX_FILES)
-  const receiveFiles: RequestHandler = (req, res, next) => {
-    upload(req, res, (error: unknown) => {
-      if (!(error instanceof multer.MulterError)) return next(error)
-      if (error.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'file_too_large', `The file is larger than the upload limit of ${config.UPLOAD_LIMIT_MB} MB.`))
-      next(new HttpError(400, 'bad_upload', `The upload was refused: ${error.message} (send files in the multipart field "file").`))
-    })
-  }
 
   router.get('/log-kinds', requirePermission('lab.read'), async (_req, res) => {
     res.json({ kinds: await listLogKinds(db) })
@@ -80,10 +69,10 @@ export function logbookRoutes(context: AppContext): Router {
     res.status(204).end()
   })
 
-  router.post('/log-entries/:id/traces', requirePermission('logbook.write'), receiveFiles, async (req, res) => {
+  router.post('/log-entries/:id/traces', requirePermission('logbook.write'), receiveTraceFiles(config.UPLOAD_LIMIT_MB), async (req, res) => {
     const id = parseId(req.params.id, 'log_entry')
     const { note } = traceUploadFieldsSchema.parse(req.body ?? {})
-    const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((file) => ({ fileName: file.originalname || 'trace.csv', bytes: file.buffer }))
+    const files = uploadedFiles(req)
     res.status(202).json(await uploadEntryTraces(context, id, files, note, requireActor(req)))
   })
 

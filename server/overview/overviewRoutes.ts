@@ -21,6 +21,7 @@
  */
 import { Router, type Response } from 'express'
 import { z } from 'zod'
+import { historyQuerySchema } from '../../shared/api/cavitySchemas'
 import { listCavityHistory } from '../analyses/analysisRepository'
 import { requireActor } from '../auth/actor'
 import { requirePermission } from '../auth/requirePermission'
@@ -30,11 +31,6 @@ import { getCavity } from '../cavities/cavityService'
 import { compareAnalyses } from './compareAnalyses'
 import { buildOverview, historyCsv, overviewCsv } from './overviewService'
 
-const historyQuerySchema = z.object({
-  from: z.coerce.date({ error: 'from must be a date (ISO 8601)' }).optional(),
-  to: z.coerce.date({ error: 'to must be a date (ISO 8601)' }).optional(),
-  limit: z.coerce.number().int().min(1).max(5000).optional(),
-})
 const compareQuerySchema = z.object({ a: z.string({ error: 'a must be an analysis id' }), b: z.string({ error: 'b must be an analysis id' }) })
 
 function sendCsv(res: Response, fileName: string, csv: string): void {

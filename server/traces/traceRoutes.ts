@@ -1,6 +1,5 @@
 /** Trace routes: upload (multipart, one or several files), read, download, re-analyse. */
-import { Router, type RequestHandler } from 'express'
-import multer from 'multer'
+import { Router } from 'express'
 import { analysisOptionsSchema, traceUploadFieldsSchema } from '../../shared/api/cavitySchemas'
 import { listTraceAnalyses } from '../analyses/analysisService'
 import { actorOf } from '../auth/actor'
@@ -8,35 +7,17 @@ import { requirePermission } from '../auth/requirePermission'
 import type { AppContext } from '../app'
 import { parseId } from '../cavities/cavityRoutes'
 import { HttpError } from '../http/errors'
+import { receiveTraceFiles, uploadedFiles } from './receiveTraceFiles'
 import { readTraceContent } from './traceRepository'
 import { getTrace, queueAnalysis, uploadTraces } from './traceService'
-
-const MAX_FILES = 20
 
 export function traceRoutes(context: AppContext): Router {
   const { db, config } = context
   const router = Router()
-  const limitBytes = Math.round(config.UPLOAD_LIMIT_MB * 1024 * 1024)
-  const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: limitBytes, files: MAX_FILES, fields: 10 } }).array('file', MAX_FILES)
-
-  // multer's own errors become house-style answers: 413 for size, 400 for the rest.
-  const receiveFiles: RequestHandler = (req, res, next) => {
-    upload(req, res, (error: unknown) => {
-      if (!error) return next()
-      if (error instanceof multer.MulterError) {
-        if (error.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'file_too_large', `The file is larger than the upload limit of ${config.UPLOAD_LIMIT_MB} MB.`))
-        if (error.code === 'LIMIT_UNEXPECTED_FILE') return next(new HttpError(400, 'unexpected_field', `Send files in the multipart field "file" (got "${error.field}").`))
-        return next(new HttpError(400, 'bad_upload', `The upload was refused: ${error.message}.`))
-      }
-      next(error)
-    })
-  }
-
-  router.post('/cavities/:id/traces', requirePermission('traces.upload'), receiveFiles, async (req, res) => {
+  router.post('/cavities/:id/traces', requirePermission('traces.upload'), receiveTraceFiles(config.UPLOAD_LIMIT_MB), async (req, res) => {
     const cavityId = parseId(req.params.id, 'cavity')
     const { note } = traceUploadFieldsSchema.parse(req.body ?? {})
-    const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((file) => ({ fileName: file.originalname || 'trace.csv', bytes: file.buffer }))
-    const outcomes = await uploadTraces(context, cavityId, files, note, actorOf(req)?.id ?? null)
+    const outcomes = await uploadTraces(context, cavityId, uploadedFiles(req), note, actorOf(req)?.id ?? null)
     res.status(202).json({ uploads: outcomes })
   })
 

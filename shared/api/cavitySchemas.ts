@@ -49,3 +49,10 @@ export type AnalysisStatus = z.infer<typeof analysisStatusSchema>
 export const traceUploadFieldsSchema = z.object({
   note: z.string().trim().max(2000, 'note must be at most 2000 characters').default(''),
 })
+
+/** Query of a cavity's history (`GET /api/cavities/:id/history` and its CSV). */
+export const historyQuerySchema = z.object({
+  from: z.coerce.date({ error: 'from must be a date (ISO 8601)' }).optional(),
+  to: z.coerce.date({ error: 'to must be a date (ISO 8601)' }).optional(),
+  limit: z.coerce.number().int().min(1).max(5000).optional(),
+})
