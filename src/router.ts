@@ -22,7 +22,7 @@ declare module 'vue-router' {
 const areaAction = (name: string): Action => appAreas.find((area) => area.name === name)?.action ?? 'lab.read'
 
 const pendingAreas: RouteRecordRaw[] = appAreas
-  .filter((area) => !['overview', 'admin', 'cavities', 'tuning', 'planner'].includes(area.name))
+  .filter((area) => !['overview', 'admin', 'cavities', 'tuning', 'planner', 'history', 'logbook'].includes(area.name))
   .map((area) => ({ path: area.path, name: area.name, component: () => import('./pages/AreaPendingPage.vue'), props: { areaName: area.name }, meta: { action: area.action, title: area.label } }))
 
 export const routes: RouteRecordRaw[] = [
@@ -36,6 +36,10 @@ export const routes: RouteRecordRaw[] = [
   { path: '/planner/kit', name: 'planner-kit', component: () => import('./pages/planner/LensKitPage.vue'), meta: { action: 'lab.read', title: 'Lens kit' } },
   { path: '/planner/plans/:id', name: 'planner-plan', component: () => import('./pages/planner/PlanPage.vue'), props: true, meta: { action: 'lab.read', title: 'Lens plan' } },
   { path: '/planner/:cavityId', name: 'planner-cavity', component: () => import('./pages/planner/PlannerPage.vue'), props: true, meta: { action: areaAction('planner'), title: 'Lens planner' } },
+  { path: '/history', name: 'history', component: () => import('./pages/history/HistoryPage.vue'), meta: { action: areaAction('history'), title: 'History' } },
+  { path: '/history/:cavityId', name: 'history-cavity', component: () => import('./pages/history/HistoryPage.vue'), props: true, meta: { action: areaAction('history'), title: 'History' } },
+  { path: '/compare', name: 'compare', component: () => import('./pages/compare/ComparePage.vue'), props: (to) => ({ a: typeof to.query.a === 'string' ? to.query.a : '', b: typeof to.query.b === 'string' ? to.query.b : '' }), meta: { action: 'lab.read', title: 'Comparison' } },
+  { path: '/logbook', name: 'logbook', component: () => import('./pages/logbook/LogbookPage.vue'), meta: { action: areaAction('logbook'), title: 'Logbook' } },
   { path: '/analyses/:id', name: 'analysis', component: () => import('./pages/analyses/AnalysisPage.vue'), props: true, meta: { action: 'lab.read', title: 'Analysis' } },
   { path: '/admin', name: 'admin', component: () => import('./pages/admin/AdminPeoplePage.vue'), meta: { action: 'users.manage', title: 'People' } },
   { path: '/admin/tokens', name: 'admin-tokens', component: () => import('./pages/admin/AdminTokensPage.vue'), meta: { action: 'tokens.manageAll', title: 'API tokens' } },
