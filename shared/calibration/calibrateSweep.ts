@@ -24,7 +24,8 @@ export interface CalibrateSweepOptions {
 
 /**
  * Maps time to optical frequency from TEM00 resonances one FSR apart: a least-squares polynomial of
- * fsrIndex against time (order ≤ points − 2 from four points on, so a residual is left to judge it) takes out
+ * fsrIndex against time (through up to four points it interpolates — TEM00 centres are far more precise than a
+ * linewidth and a piezo's response is close to cubic; from five on, order ≤ points − 2 leaves a residual to judge it) takes out
  * the piezo's nonlinearity (common practice; polynomial least squares as in Press et al., "Numerical Recipes", §15.4).
  */
 export function calibrateSweep(timesSeconds: number[], fsrIndex: number[], options: CalibrateSweepOptions = {}): SweepCalibration {
@@ -44,7 +45,7 @@ export function calibrateSweep(timesSeconds: number[], fsrIndex: number[], optio
   const m = sorted.length >> 1
   const fsrSeconds = sorted.length % 2 ? sorted[m] : (sorted[m - 1] + sorted[m]) / 2
   const meanSpacingSeconds = (timesSeconds[count - 1] - timesSeconds[0]) / (fsrIndex[count - 1] - fsrIndex[0])
-  const order = Math.min(maxOrder, count <= 3 ? count - 1 : count - 2)
+  const order = Math.min(maxOrder, count <= 4 ? count - 1 : count - 2)
   const t0Seconds = (timesSeconds[0] + timesSeconds[count - 1]) / 2
   const scaleSeconds = Math.max((timesSeconds[count - 1] - timesSeconds[0]) / 2, 1e-300)
   const u = timesSeconds.map((t) => (t - t0Seconds) / scaleSeconds)

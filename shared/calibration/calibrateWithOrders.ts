@@ -46,7 +46,9 @@ export function calibrateWithOrders(
   const sign = direction === 'up' ? 1 : -1
   let usable = points.filter((p) => Number.isFinite(p.tSeconds) && p.weight > 0)
   const hasTransverse = usable.some((p) => p.order > 0)
-  const degree = Math.max(1, Math.min(maxOrder, usable.length - (hasTransverse ? 3 : 2)))
+  // As calibrateSweep: through up to four TEM00 alone the polynomial may interpolate (their centres are far more
+  // precise than a linewidth); otherwise one point more than the parameters is kept to judge the fit.
+  const degree = Math.max(1, Math.min(maxOrder, hasTransverse ? usable.length - 3 : usable.length <= 4 ? usable.length - 1 : usable.length - 2))
   if (usable.length < 3) return { calibration: start, gouyRad: predictedGouyRad, gouyAtBound: false }
   // The whole number of FSRs below each point, from the starting map.
   let periods = usable.map((p) => Math.round(frequencyAt(start, p.tSeconds) - (sign * p.order * predictedGouyRad) / Math.PI))

@@ -63,9 +63,8 @@ describe('accuracy on generated traces', () => {
 
   // KNOWN FAILING (see test-output/accuracy.md and README.md): the literal criterion also asks for orders below
   // the noise floor — case 29 order 3 (0.5 % of the power at 3 % noise: ideal significance 3.5σ) and case 30
-  // orders 1–3 (3.6 samples per linewidth, 3 % noise, no transverse resonance found to correct a calibration off by
-  // up to half a linewidth between the TEM00 resonances; ideal 5.4σ, 3.2σ, 2.2σ). When they are
-  // labelled this test errors and the marker must be removed.
+  // orders 2 and 3 (3.6 samples per linewidth, 3 % noise: ideal 3.2σ and 2.2σ). When they are labelled this test
+  // errors and the marker must be removed.
   it.fails('when 60 generated traces are analysed then every order with ≥ 0.5 % of the power is labelled in every case', () => {
     const { outcomes: all } = runSuite()
     expect(all.flatMap((o) => o.failures)).toEqual([])
