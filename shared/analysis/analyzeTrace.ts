@@ -656,8 +656,8 @@ function measureOrderShares(input: ShareInputs): Shares {
   // Sideband power is refined too, in turn with the width (coordinate descent): sidebands closer than a few
   // linewidths blur into the carrier and trade off with the width; farther ones lie outside the TEM00 fits.
   // The search runs on every k-th sample (about 8 per linewidth pin a width; on long windows down to 4 per
-  // linewidth, keeping it near 30,000 samples); the final fit uses all.
-  const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 30_000)))
+  // linewidth, keeping it near 15,000 samples); the final fit uses all.
+  const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 15_000)))
   const every = (a: Float64Array) => {
     if (stride === 1) return a
     const out = new Float64Array(Math.ceil(a.length / stride))
@@ -676,13 +676,13 @@ function measureOrderShares(input: ShareInputs): Shares {
       residualOnly: on === coarse,
     })
   let sidebands = input.sidebands
-  let fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.85 * finesse, 1.18 * finesse, 11)
+  let fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, finesse, 0.85 * finesse, 1.18 * finesse)
   if (sidebands) {
     for (let round = 0; round < 2; round++) {
       const base: { offsetFsr: number; ratio: number } = sidebands
       const ratio = goldenSectionMinimum((r) => fitWith(fittedFinesse, { ...base, ratio: r - 1e-3 }).reducedChiSquare, 1e-3, 2 * base.ratio + 0.1, 11) - 1e-3
       sidebands = { ...base, ratio: Math.max(0, ratio) }
-      fittedFinesse = goldenSectionMinimum((f) => fitWith(f, sidebands).reducedChiSquare, 0.85 * finesse, 1.18 * finesse, 11)
+      fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, finesse, 0.85 * finesse, 1.18 * finesse)
     }
   }
   const fit = fitWith(fittedFinesse, sidebands, { y, nu, stepFsr, background })
@@ -743,6 +743,45 @@ function measureOrderShares(input: ShareInputs): Shares {
       return 0
     },
   }
+}
+
+/**
+ * Minimum of a smooth function near x0 on a log scale by successive parabolas through three points (inverse
+ * parabolic interpolation, Press et al., "Numerical Recipes", §10.2): a bracket of ±6 % walked towards the lower
+ * side until it holds the minimum, then a parabola, then a second one at a quarter of the spacing. About seven
+ * evaluations, against a dozen for a golden-section search to the same precision. Kept within [lo, hi].
+ */
+function parabolicMinimum(f: (x: number) => number, x0: number, lo: number, hi: number): number {
+  const a = Math.log(lo)
+  const b = Math.log(hi)
+  const at = (u: number) => f(Math.exp(Math.min(b, Math.max(a, u))))
+  const vertex = (u: number, h: number, fm: number, f0: number, fp: number) => {
+    const curvature = fp - 2 * f0 + fm
+    if (!(curvature > 0)) return fm < fp ? u - h : u + h
+    return Math.min(u + h, Math.max(u - h, u - (h * (fp - fm)) / (2 * curvature)))
+  }
+  let h = 0.06
+  let u = Math.log(x0)
+  let fm = at(u - h)
+  let f0 = at(u)
+  let fp = at(u + h)
+  for (let step = 0; step < 3 && !(f0 <= fm && f0 <= fp); step++) {
+    if (fm < fp) {
+      u -= h
+      fp = f0
+      f0 = fm
+      fm = at(u - h)
+    } else {
+      u += h
+      fm = f0
+      f0 = fp
+      fp = at(u + h)
+    }
+  }
+  u = vertex(u, h, fm, f0, fp)
+  h /= 4
+  u = vertex(u, h, at(u - h), at(u), at(u + h))
+  return Math.exp(Math.min(b, Math.max(a, u)))
 }
 
 /**
