@@ -10,7 +10,7 @@ export interface AnalysisPool {
   close(): Promise<void>
 }
 
-export function createAnalysisPool(options: { threads: number }): AnalysisPool {
+export function createAnalysisPool(options: { threads: number; warmUp?: boolean }): AnalysisPool {
   const runningTs = import.meta.url.endsWith('.ts')
   const pool = new Piscina({
     filename: new URL(runningTs ? './analysisThread.ts' : './analysisThread.js', import.meta.url).href,
@@ -18,6 +18,7 @@ export function createAnalysisPool(options: { threads: number }): AnalysisPool {
     maxThreads: Math.max(1, options.threads),
     idleTimeout: 60_000,
     execArgv: runningTs ? ['--import', 'tsx'] : [],
+    workerData: { warmUp: options.warmUp ?? false },
   })
   return {
     run(task) {

@@ -3,10 +3,12 @@
  * request thread. Bad input comes back as `{ ok: false, error }` (it will fail the same way on a
  * retry); anything else throws, so the job is retried.
  */
+import { workerData } from 'node:worker_threads'
 import { gunzipSync } from 'node:zlib'
 import type { CavityGeometry } from '../../shared/cavity'
 import { analyzeTrace } from '../../shared/analysis/analyzeTrace'
 import type { AnalysisResult, AnalyzeOptions } from '../../shared/analysis/types'
+import { warmUpAnalysis } from '../../shared/analysis/warmUpAnalysis'
 import { isEngineError } from '../../shared/errors'
 import { readTrace } from '../../shared/trace/readTrace'
 
@@ -19,6 +21,10 @@ export interface AnalysisTask {
 }
 
 export type AnalysisOutcome = { ok: true; result: AnalysisResult; milliseconds: number } | { ok: false; error: { code: string; message: string } }
+
+// A fresh thread spends about twice the CPU on its first analysis while the engine compiles its hot
+// loops; do that on a small generated trace before the first upload arrives.
+if ((workerData as { warmUp?: boolean } | undefined)?.warmUp) warmUpAnalysis()
 
 export default function runAnalysisTask(task: AnalysisTask): AnalysisOutcome {
   const started = performance.now()

@@ -47,7 +47,8 @@ export async function startAnalysisService(config: AppConfig, context: { db: Db;
       )
       if (stopped) return void (await started.stop())
       if (threads > 0) {
-        pool = createAnalysisPool({ threads })
+        // Tests start many short-lived servers: warming each one's threads would only add load.
+        pool = createAnalysisPool({ threads, warmUp: config.NODE_ENV !== 'test' })
         await started.startWorking(pool)
       }
       queue = started
