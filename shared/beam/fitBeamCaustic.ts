@@ -174,8 +174,9 @@ function causticWarnings(z: number[], fit: CausticFit, recommendedPoints: number
   if (z.length < recommendedPoints) {
     warnings.push({ code: 'few_measurements', message: `Only ${z.length} measurements; ISO 11146-1 asks for at least ${recommendedPoints} (from memory), so the uncertainties are rough.` })
   }
-  if (fit.m2 < 1) {
-    warnings.push({ code: 'm2_below_one', message: `The fit gives M² = ${fit.m2.toFixed(3)} < 1, which no real beam has: the radii are noisy, the wavelength is wrong, or the widths are not 1/e² radii. Use the result with care.` })
+  // Below 1 by more than its uncertainty (and more than rounding): a perfect beam measured well fits to 0.9999….
+  if (fit.m2 < 1 - Math.max(1e-3, 2 * fit.uncertainty.m2)) {
+    warnings.push({ code: 'm2_below_one', message: `The fit gives M² = ${fit.m2.toFixed(3)} ± ${fit.uncertainty.m2.toFixed(3)}, below 1, which no real beam has: the radii are noisy, the wavelength is wrong, or the widths are not 1/e² radii. Use the result with care.` })
   }
   return warnings
 }

@@ -85,6 +85,12 @@ describe('fitBeamCaustic', () => {
     expect(fit.warnings.map((w) => w.code)).toEqual(expect.arrayContaining(['m2_below_one', 'few_measurements']))
   })
 
+  it('when M² comes out a hair below 1 (a perfect beam and rounded radii) then there is no unphysical-M² warning', () => {
+    const fit = fitBeamCaustic({ wavelengthNm: lambdaNm, zMm: positions, radiusMm: positions.map((z) => radius(z, { ...truth, m2: 0.9995 })) })
+    expect(fit.m2).toBeCloseTo(0.9995, 6)
+    expect(fit.warnings.map((w) => w.code)).not.toContain('m2_below_one')
+  })
+
   it('when the input cannot be fitted then it throws clear errors', () => {
     expect(engineErrorOf(() => fitBeamCaustic({ wavelengthNm: lambdaNm, zMm: [0, 1, 2], radiusMm: [1, 1, 1] })).code).toBe('too_few_measurements')
     expect(engineErrorOf(() => fitBeamCaustic({ wavelengthNm: lambdaNm, zMm: [0, 1, 2, 3], radiusMm: [1, 1, 1] })).code).toBe('invalid_measurements')
