@@ -62,7 +62,7 @@ export const roleLabels: Record<Role, { label: string; summary: string }> = {
   admin: { label: 'Admin', summary: 'People, roles, tokens, the audit log — and everything else.' },
   lead: { label: 'Lead', summary: 'Creates and edits cavities, targets and alerts; sees and compares all; bench work too.' },
   experimenter: { label: 'Experimenter', summary: 'Uploads traces, runs and re-runs analyses, writes notes.' },
-  technician: { label: 'Technician', summary: 'Keeps the maintenance log with attachments and uploads traces.' },
+  technician: { label: 'Technician', summary: 'Keeps the maintenance log with attachments, the lens kit, and uploads traces.' },
   viewer: { label: 'Viewer', summary: 'Reads everything, changes nothing.' },
 }
 
