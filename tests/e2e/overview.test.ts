@@ -101,6 +101,7 @@ describe('the overview as the demo lead', () => {
   it('when a watched cavity falls below its target then the notices bell counts it and the panel links to the analysis', async () => {
     const { page } = browser
     // A trace of the reference cavity (its geometry is the test geometry) with only 55 % in TEM00, against its 90 % target.
+    // Its generated finesse (400) is also far below the cavity's ~3000, so the finesse-drop rule may fire as well.
     const csv = generatedTraceCsv({ gouyOneWayRad: computeCavityModel(testCavityGeometry).gouyOneWayRad, orderPowers: [0.55, 0.25, 0.15, 0.05], seed: 31 })
     const cavityId = ((await server.db('cavities').where({ name: 'REF-1064 reference cavity' }).first('id')) as { id: string }).id
     const status = await page.evaluate(
@@ -118,12 +119,16 @@ describe('the overview as the demo lead', () => {
       await new Promise((resolve) => setTimeout(resolve, 200))
       unread = ((await (await page.request.get(`${server.url}/api/notifications`)).json()) as { unreadCount: number }).unreadCount
     }
-    expect(unread).toBe(1)
+    expect(unread).toBeGreaterThanOrEqual(1)
+    // Both rules are judged on the same analysis; let the count settle before reading it.
+    await new Promise((resolve) => setTimeout(resolve, 500))
+    unread = ((await (await page.request.get(`${server.url}/api/notifications`)).json()) as { unreadCount: number }).unreadCount
     await page.getByTestId('notification-bell').click()
     const panel = page.getByTestId('notification-panel')
     await panel.waitFor()
     await page.getByTestId('notification-count').waitFor()
-    expect(await page.getByTestId('notification-count').innerText()).toBe('1')
+    expect(await page.getByTestId('notification-count').innerText()).toBe(String(unread))
+    expect(await panel.locator('li.unread').count()).toBe(unread)
     expect(await panel.innerText()).toContain('REF-1064')
     expect(await panel.getByRole('link').first().getAttribute('href')).toMatch(/^\/analyses\/[0-9a-f-]+$/)
     expect(statSync(await browser.screenshot('notices')).size).toBeGreaterThan(20_000)
