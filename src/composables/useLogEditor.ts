@@ -26,6 +26,10 @@ export function useLogEditor(entries: ReturnType<typeof useLogEntries>) {
     serverError.value = null
     dialogOpen.value = true
   }
+  /** For the dialog's own close button. */
+  function setDialogOpen(open: boolean) {
+    dialogOpen.value = open
+  }
   function openEdit(entry: LogEntry) {
     editing.value = entry
     serverError.value = null
@@ -49,5 +53,5 @@ export function useLogEditor(entries: ReturnType<typeof useLogEntries>) {
     return 'error' in outcome ? outcome.error.message : null
   }
 
-  return { dialogOpen, editing, serverError, lastSaved, canWrite, canEdit, openNew, openEdit, save, remove }
+  return { dialogOpen, editing, serverError, lastSaved, canWrite, canEdit, openNew, openEdit, setDialogOpen, save, remove }
 }
