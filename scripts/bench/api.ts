@@ -7,12 +7,10 @@ import { rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
-import pino from 'pino'
+import { spawn } from 'node:child_process'
 import { migrationConfig } from '../../db/migrationSource'
 import { insertCavity } from '../../server/cavities/cavityRepository'
-import { loadConfig } from '../../server/config'
 import { createDb } from '../../server/db/knex'
-import { startServer } from '../../server/server'
 import { newApiToken } from '../../server/tokens/secretTokens'
 import { insertToken } from '../../server/tokens/tokensData'
 import { insertUser } from '../../server/users/usersData'
@@ -26,6 +24,31 @@ function freePort(): Promise<number> {
     const probe = createServer().listen(0, '127.0.0.1', () => {
       const { port } = probe.address() as { port: number }
       probe.close(() => resolve(port))
+    })
+  })
+}
+
+/** `server/main.ts` in a child process on a free port; resolves with its URL once it listens. */
+function startServerProcess(env: Record<string, string>): Promise<{ url: string; stop: () => Promise<void> }> {
+  const child = spawn(process.execPath, [...(process.env.CAVITRACE_BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=/tmp/prof'] : []), '--import', 'tsx', 'server/main.ts'], {
+    cwd: projectRoot,
+    env: { ...process.env, NODE_ENV: 'production', SESSION_SECRET: 'bench-only-secret-bench-only-secret-0123', MAIL_CAPTURE: 'on', PORT: '0', LOG_LEVEL: 'warn', ...env },
+    stdio: ['ignore', 'pipe', 'inherit'],
+  })
+  return new Promise((resolve, reject) => {
+    child.once('exit', (code) => reject(new Error(`the server exited with ${code}`)))
+    child.stdout!.on('data', (chunk: Buffer) => {
+      const match = /CAVITRACE_LISTENING (\S+)/.exec(chunk.toString())
+      if (!match) return
+      resolve({
+        url: match[1],
+        stop: () =>
+          new Promise((done) => {
+            child.removeAllListeners('exit')
+            child.once('exit', () => done())
+            child.kill('SIGTERM')
+          }),
+      })
     })
   })
 }
@@ -51,8 +74,8 @@ export default async function benchApi(): Promise<void> {
     const cavity = await insertCavity(setupDb, { name: 'Bench cavity', description: '', location: '', ...testCavityGeometry, targetFundamentalFraction: null, archived: false })
     await setupDb.destroy()
 
-    const server = await startServer(loadConfig({ NODE_ENV: 'test', PORT: '0', LOG_LEVEL: 'silent', DATABASE_URL: url, WORKER_THREADS: '1' }), { logger: pino({ level: 'silent' }) })
-    await server.analysis.ready()
+    // The server runs in its own process, as in production, so the load generator does not share its event loop.
+    const server = await startServerProcess({ DATABASE_URL: url, WORKER_THREADS: '1' })
     const headers = { Authorization: `Bearer ${token.secret}` }
     try {
       // Upload → result: time from sending the file to the "done" event on the cavity's stream.
@@ -102,7 +125,7 @@ export default async function benchApi(): Promise<void> {
 
       // API reads under a fixed 200 requests/s load.
       const analysisId = [...doneAt.keys()][0]
-      for (const path of [`/api/cavities/${cavity.id}/history`, `/api/analyses/${analysisId}`, '/api/cavities']) {
+      for (const path of [`/api/cavities/${cavity.id}/history`, `/api/analyses/${analysisId}`, '/api/cavities', '/api/health']) {
         const result = await autocannon({ url: `${server.url}${path}`, headers, connections: 10, overallRate: 200, duration: 8 })
         console.log(
           `| GET ${path.replace(/[0-9a-f-]{36}/g, ':id')} at 200 req/s for 8 s | p50 ${result.latency.p50} ms | p99 ${result.latency.p99} ms | ${result.requests.total} requests, ${result.non2xx} non-2xx | target p99 < 50 ms |`,
