@@ -95,6 +95,23 @@ describe('the maintenance log as the demo technician', () => {
     expect(statSync(await browser.screenshot('logbook-history-marker')).size).toBeGreaterThan(20_000)
   })
 
+  it('when a new trace is analysed while the history is open then its point joins the charts by itself', async () => {
+    const { page } = browser
+    const before = Number(await page.getByTestId('trend-fundamentalFraction').getAttribute('data-points'))
+    const csv = generatedTraceCsv({ gouyOneWayRad: computeCavityModel(testCavityGeometry).gouyOneWayRad, orderPowers: [0.92, 0.04, 0.03, 0.01], seed: 22 })
+    const status = await page.evaluate(
+      async ({ id, body }) => {
+        const form = new FormData()
+        form.append('file', new Blob([body], { type: 'text/csv' }), 'check-after-cleaning.csv')
+        return (await fetch(`/api/cavities/${id}/traces`, { method: 'POST', body: form, credentials: 'same-origin' })).status
+      },
+      { id: cavityId, body: csv },
+    )
+    expect(status).toBe(202)
+    await page.waitForFunction((count) => Number(document.querySelector('[data-testid="trend-fundamentalFraction"]')?.getAttribute('data-points')) === count + 1, before, { timeout: 30_000 })
+    await page.getByTestId('history-table').getByText('check-after-cleaning.csv').waitFor()
+  })
+
   it('when the logbook is searched for the entry’s words then only that entry is listed', async () => {
     const { page } = browser
     await page.goto(`${server.url}/logbook`)
