@@ -26,9 +26,8 @@ export function authenticate(db: Db, sessionSecret: () => Promise<string>): Requ
         const refused = () => new HttpError(401, 'invalid_token', 'The API token is not valid: it may have been revoked, or its owner disabled.')
         if (!bearer) throw new HttpError(401, 'invalid_token', 'Send the API token as "Authorization: Bearer <token>".')
         const found = await useTokenByHash(db, hashSecret(bearer))
-        if (!found) throw refused()
-        const user = await findUserById(db, found.userId)
-        if (!user || user.disabledAt) throw refused()
+        const user = found?.owner
+        if (!found || !user || user.disabledAt) throw refused()
         setActor(req, { id: user.id, email: user.email, name: user.name, role: user.role, via: 'token', tokenId: found.tokenId })
         return next()
       }

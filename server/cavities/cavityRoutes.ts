@@ -40,9 +40,11 @@ export function cavityRoutes(context: AppContext): Router {
   })
 
   router.get('/cavities/:id/history', requirePermission('lab.read'), async (req, res) => {
-    const cavity = await getCavity(db, parseId(req.params.id, 'cavity'))
-    const query = historyQuerySchema.parse(req.query)
-    res.json({ cavityId: cavity.id, analyses: await listCavityHistory(db, cavity.id, query) })
+    const cavityId = parseId(req.params.id, 'cavity')
+    const analyses = await listCavityHistory(db, cavityId, historyQuerySchema.parse(req.query))
+    // Only an empty answer needs telling apart "no analyses" from "no such cavity" (a frequently polled route).
+    if (analyses.length === 0) await getCavity(db, cavityId)
+    res.json({ cavityId, analyses })
   })
 
   // Server-sent events: status changes of this cavity's analyses, from any app instance or worker.

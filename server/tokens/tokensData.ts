@@ -1,6 +1,7 @@
 /** Data access for API tokens (`api_tokens`). Only hashes are stored. */
 import type { TokenSummary } from '../../shared/auth/schemas'
 import type { Db } from '../db/knex'
+import { toRecord as userFromRow, type UserRecord, type UserRow } from '../users/usersData'
 
 interface TokenRow {
   id: number
@@ -64,15 +65,17 @@ export async function revokeToken(db: Db, id: number): Promise<boolean> {
   return changed > 0
 }
 
-/** The live token with this hash and its owner's id, or null. Marks it used. */
-export async function useTokenByHash(db: Db, hash: string): Promise<{ tokenId: number; userId: number } | null> {
-  const row = (await db('api_tokens').where({ token_hash: hash }).whereNull('revoked_at').first('id', 'user_id', 'last_used_at')) as
-    | { id: number; user_id: number; last_used_at: Date | null }
-    | undefined
+/** The live token with this hash and its owner, in one query, or null. Marks it used (at most once a minute). */
+export async function useTokenByHash(db: Db, hash: string): Promise<{ tokenId: number; owner: UserRecord } | null> {
+  const row = (await db('api_tokens as t')
+    .join('users as u', 'u.id', 't.user_id')
+    .where('t.token_hash', hash)
+    .whereNull('t.revoked_at')
+    .first('u.*', 't.id as token_id', 't.last_used_at as token_last_used_at')) as (UserRow & { token_id: number; token_last_used_at: Date | null }) | undefined
   if (!row) return null
-  // Record use at most once a minute: a script polling many times a second must not turn every read into a write.
-  if (!row.last_used_at || Date.now() - row.last_used_at.getTime() > 60_000) {
-    await db('api_tokens').where({ id: row.id }).update({ last_used_at: db.fn.now() })
+  // A script polling many times a second must not turn every read into a write.
+  if (!row.token_last_used_at || Date.now() - row.token_last_used_at.getTime() > 60_000) {
+    await db('api_tokens').where({ id: row.token_id }).update({ last_used_at: db.fn.now() })
   }
-  return { tokenId: row.id, userId: row.user_id }
+  return { tokenId: row.token_id, owner: userFromRow(row) }
 }

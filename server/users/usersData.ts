@@ -15,7 +15,8 @@ export interface UserRecord {
   createdAt: Date
 }
 
-interface UserRow {
+/** A `users` row as the database returns it. */
+export interface UserRow {
   id: number
   email: string
   name: string
@@ -27,7 +28,7 @@ interface UserRow {
   created_at: Date
 }
 
-function toRecord(row: UserRow): UserRecord {
+export function toRecord(row: UserRow): UserRecord {
   return {
     id: row.id,
     email: row.email,
