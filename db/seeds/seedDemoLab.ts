@@ -84,7 +84,8 @@ const demoCavities: DemoCavity[] = [
       targetFundamentalFraction: 0.7,
       archived: false,
     },
-    preset: { ...simPresets['enhancement-532'] },
+    // The scope shows a bit more than three FSRs per half of the triangle, so every sweep holds several TEM00.
+    preset: { ...simPresets['enhancement-532'], fsrCount: 3.2 },
     fractions: [0.48, 0.53, 0.58, 0.61, 0.6, 0.65, 0.67, 0.69],
     finesse: () => 150,
     notes: ['crystal re-mounted', 'lens pair moved together +3 mm', 'focus lens +1 mm', 'walked in', 'focus lens −0.5 mm', 'second lens +1 mm', 'tilt', 'end of the day'],
