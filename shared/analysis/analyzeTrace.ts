@@ -229,7 +229,9 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     orders,
     misalignmentShare,
     mismatchShare,
-    reading: readingOfShares(fundamentalFraction, misalignmentShare, mismatchShare),
+    reading: calibration
+      ? readingOfShares(fundamentalFraction, misalignmentShare, mismatchShare)
+      : `About ${(100 * fundamentalFraction).toFixed(0)} % of the resonance power seen is in TEM00, but with fewer than two TEM00 resonances in the sweep no other resonance can be given an order, so misalignment and mismatch cannot be told apart. Sweep over more than one FSR and analyse again.`,
     measure: useHeight ? 'height' : 'area',
     measureReason: useHeight
       ? `Fitted heights (${usedModel} lines at the predicted places, one shared linewidth): the resonances are well sampled (${fmt(samplesPerLinewidth)} samples per linewidth) and smooth.`
@@ -891,16 +893,29 @@ function samplesNearLines(
 }
 
 /** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */
+/**
+ * Without two TEM00 resonances the sweep cannot be calibrated, so no resonance can be given an order. The TEM00
+ * fraction is then the TEM00 resonances' integrated power against all resonance power seen in the sweep: a rough
+ * figure (the sweep may hold more or less than one FSR of transverse modes), flagged by `single_fundamental`.
+ */
 function fundamentalOnlyShares(measured: MeasuredResonance[], members: number[]): Shares {
-  const total = members.reduce((s, k) => s + measured[k].heightV, 0)
+  const isFundamental = new Set(members)
+  let fundamental = 0
+  let all = 0
+  for (let k = 0; k < measured.length; k++) {
+    const area = Math.max(0, measured[k].areaVSamples)
+    all += area
+    if (isFundamental.has(k)) fundamental += area
+  }
+  const fraction = all > 0 ? fundamental / all : 1
   return {
-    orders: { '0': 1 },
-    fundamentalFraction: 1,
+    orders: { '0': fraction },
+    fundamentalFraction: fraction,
     fundamentalFractionError: null,
-    measure: 'height',
+    measure: 'area',
     reducedChiSquare: null,
     finesse: null,
-    shareOfPeak: (order) => (order === 0 && total > 0 ? 1 / Math.max(1, members.length) : 0),
+    shareOfPeak: (order) => (order === 0 && members.length > 0 ? fraction / members.length : 0),
   }
 }
 

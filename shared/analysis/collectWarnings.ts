@@ -40,7 +40,7 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
   if (fundamentals.length < 2) {
     w.push({
       code: 'single_fundamental',
-      message: 'Fewer than two TEM00 resonances in the sweep: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. Sweep over more than one FSR.',
+      message: 'Fewer than two TEM00 resonances in the sweep: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. The TEM00 fraction is only TEM00 power against all resonance power seen, a rough figure. Sweep over more than one FSR.',
     })
   }
   if (fundamentals.length === 2) {
