@@ -59,7 +59,7 @@ const MAX_DAMPING = 1e32
 /**
  * Weighted nonlinear least squares by Levenberg–Marquardt: each step solves (JᵀJ + λD²)δ = Jᵀr by Householder QR
  * of J and of [R; √λ·D], with D the running maximum of the Jacobian column norms; λ is updated from the gain ratio.
- * Sources: D. W. Marquardt, J. SIAM 11, 431 (1963); J. J. Moré, Lecture Notes in Mathematics 630, 105 (1978)
+ * Sources: D. W. Marquardt, J. SIAM 11, 431 (1963); J. J. Moré, "The Levenberg–Marquardt algorithm: implementation and theory", in Numerical Analysis, Springer LNM 630, 105 (1978)
  * (scaling and convergence tests); H. B. Nielsen, IMM-REP-1999-05, DTU (1999) (damping update).
  * Standard errors come from s²(JᵀWJ)⁻¹ with s² = RSS/(n − p) (or a known residual variance). A point where some parameter has no effect on the
  * model, or the Jacobian is numerically rank-deficient, is reported with `converged: false`.
