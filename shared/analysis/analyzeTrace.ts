@@ -14,6 +14,7 @@ import { fitOrderPowers, type PredictedLine } from '../orders/fitOrderPowers'
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { findFundamentals, type FundamentalComb } from '../orders/findFundamentals'
+import { isTransverseLadder } from '../orders/isTransverseLadder'
 import { assignOrders, type OrderLabel } from '../orders/assignOrders'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
@@ -84,7 +85,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   // 5. TEM00 comb and a first calibration on it.
   const families0 = orderFamilies(predictedGouy, MAX_ORDER, 0.005)
   const sidebandOffsetFsr = modulationMHz ? (modulationMHz * 1e6) / model.fsrHz : null
-  const comb = chooseComb(measured, tOf, predictedGouy, families0.leaders, sidebandOffsetFsr, roughWidth)
+  const comb = unlessLadder(chooseComb(measured, tOf, predictedGouy, families0.leaders, sidebandOffsetFsr, roughWidth), measured, predictedGouy, signal.length, families0.leaders, roughWidth)
   let calibration: SweepCalibration | null = null
   if (comb.members.length >= 2) calibration = calibrateSweep(comb.members.map((k) => tOf(measured[k])), comb.fsrIndex)
 
@@ -341,6 +342,29 @@ function chooseComb(
     }
   }
   return best
+}
+
+/**
+ * One TEM00 followed by orders 1, 2, … is equally spaced like a comb; when the comb is better read as that ladder,
+ * only its tallest member is kept as TEM00 (the single-TEM00 path then reports the share of all resonance power).
+ */
+function unlessLadder(
+  comb: FundamentalComb,
+  measured: MeasuredResonance[],
+  gouy: number,
+  sweepLengthSamples: number,
+  allowedOrders: number[],
+  roughWidth: number,
+): FundamentalComb {
+  if (comb.members.length < 2) return comb
+  const positions = measured.map((m) => ({ center: m.centerIndex, height: m.heightV }))
+  const spanSamples = Math.abs(measured[comb.members[comb.members.length - 1]].centerIndex - measured[comb.members[0]].centerIndex)
+  const spacing = spanSamples / (comb.fsrIndex[comb.fsrIndex.length - 1] - comb.fsrIndex[0])
+  const toleranceSamples = Math.max(2 * roughWidth, 0.02 * spacing)
+  if (!isTransverseLadder(positions, comb, gouy, sweepLengthSamples, { allowedOrders, toleranceSamples })) return comb
+  let tallest = comb.members[0]
+  for (const k of comb.members) if (measured[k].heightV > measured[tallest].heightV) tallest = k
+  return { members: [tallest], fsrIndex: [0] }
 }
 
 interface PreparedSignal {

@@ -1,0 +1,65 @@
+import { describe, expect, it } from 'vitest'
+import { analyzeTrace } from '../../../shared/analysis/analyzeTrace'
+import type { CavityGeometry } from '../../../shared/cavity'
+import { isTransverseLadder } from '../../../shared/orders/isTransverseLadder'
+import { generateSweptTrace } from '../../../shared/sim/generateSweptTrace'
+import type { Trace } from '../../../shared/trace/types'
+
+// 1064 nm, 100 mm, flat / 500 mm: ψ/π = 0.2952, so orders 1, 2, 3 sit 0.295, 0.590, 0.886 FSR above TEM00
+// (Siegman, "Lasers" (1986), ch. 19) — equally spaced, like a comb.
+const cavity: CavityGeometry = { wavelengthNm: 1064, lengthMm: 100, roc1Mm: null, roc2Mm: 500 }
+
+describe('one TEM00 followed by its transverse ladder', () => {
+  it('when the sweep holds one TEM00 then orders 1 and 2 then it is not read as a TEM00 comb', () => {
+    // 0.9 FSR of sweep starting just before a TEM00: TEM00, order 1, order 2 equally spaced in time.
+    const sim = generateSweptTrace({ cavity, gouyOneWayRad: 0, finesse: 300, orderPowers: [0.7, 0.2, 0.1], sampleCount: 20_000, fsrCount: 0.9, startDetuningFsr: -0.05, noiseFraction: 0.002, seed: 3 })
+    const swept = sim.truth.peaks.filter((p) => p.t >= sim.truth.sweepStartSeconds! && p.t <= sim.truth.sweepEndSeconds!)
+    const fundamentals = swept.filter((p) => p.order === 0 && p.kind === 'carrier')
+    expect(fundamentals).toHaveLength(1)
+    expect(swept.filter((p) => p.order === 1 || p.order === 2)).toHaveLength(2)
+    // Without a calibration the best figure is TEM00 power over all resonance power in the sweep (from the truth).
+    const seenShare = fundamentals[0].power / swept.reduce((sum, p) => sum + p.power, 0)
+    const trace: Trace = {
+      sampleCount: sim.tSeconds.length,
+      sampleInterval: sim.sampleIntervalSeconds,
+      startTime: sim.tSeconds[0],
+      time: sim.tSeconds,
+      channels: [
+        { name: 'ramp', unit: 'V', values: sim.rampV!, role: 'ramp', roleEvidence: 'test' },
+        { name: 'transmission', unit: 'V', values: sim.transmissionV, role: 'transmission', roleEvidence: 'test' },
+      ],
+      metadata: {},
+      warnings: [],
+    }
+    const result = analyzeTrace(trace, cavity)
+    const codes = result.warnings.map((w) => w.code)
+    expect(codes).toContain('single_fundamental')
+    expect(codes).not.toContain('two_fundamentals')
+    expect(seenShare).toBeLessThan(0.8)
+    expect(Math.abs(result.fundamentalFraction - seenShare)).toBeLessThan(0.02)
+  })
+
+  it('when comb members have comparable heights then the comb is kept', () => {
+    // Three TEM00s one spacing apart with heights within 20 % (common practice: TEM00 heights vary with laser power).
+    const peaks = [
+      { center: 1000, height: 1 },
+      { center: 1300, height: 0.1 },
+      { center: 4000, height: 0.85 },
+      { center: 7000, height: 0.95 },
+    ]
+    expect(isTransverseLadder(peaks, { members: [0, 2, 3], fsrIndex: [0, 1, 2] }, 0.2952 * Math.PI, 8000)).toBe(false)
+  })
+
+  it('when heights fall by large factors at the ladder spacing and no second TEM00 fits in the sweep then it is a ladder', () => {
+    const gouy = 0.2952 * Math.PI
+    const peaks = [
+      { center: 1000, height: 1 },
+      { center: 3000, height: 0.3 },
+      { center: 5000, height: 0.14 },
+    ]
+    // Ladder FSR = 2000 / 0.2952 ≈ 6775 samples: the next TEM00 would sit past the end of an 7000-sample sweep.
+    expect(isTransverseLadder(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 7000)).toBe(true)
+    // In a longer sweep the ladder's second TEM00 would be visible: keep the comb reading.
+    expect(isTransverseLadder(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 20000)).toBe(false)
+  })
+})
