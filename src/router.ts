@@ -21,13 +21,8 @@ declare module 'vue-router' {
 
 const areaAction = (name: string): Action => appAreas.find((area) => area.name === name)?.action ?? 'lab.read'
 
-const pendingAreas: RouteRecordRaw[] = appAreas
-  .filter((area) => !['overview', 'admin', 'cavities', 'tuning', 'planner', 'history', 'logbook'].includes(area.name))
-  .map((area) => ({ path: area.path, name: area.name, component: () => import('./pages/AreaPendingPage.vue'), props: { areaName: area.name }, meta: { action: area.action, title: area.label } }))
-
 export const routes: RouteRecordRaw[] = [
   { path: '/', name: 'overview', component: () => import('./pages/OverviewPage.vue'), meta: { action: areaAction('overview') } },
-  ...pendingAreas,
   { path: '/cavities', name: 'cavities', component: () => import('./pages/cavities/CavitiesPage.vue'), meta: { action: areaAction('cavities'), title: 'Cavities' } },
   { path: '/cavities/:id', name: 'cavity', component: () => import('./pages/cavities/CavityPage.vue'), props: true, meta: { action: 'lab.read', title: 'Cavity' } },
   { path: '/tuning', name: 'tuning', component: () => import('./pages/tuning/TuningPage.vue'), meta: { action: areaAction('tuning'), title: 'Tuning' } },
