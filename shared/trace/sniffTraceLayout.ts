@@ -362,6 +362,9 @@ function stripUnit(header: string): { name: string; unit: string | undefined } {
   if (bracketed) return { name: bracketed[1].trim(), unit: bracketed[2] }
   const slashed = /^(.*?)\s*\/\s*([^/\s]+)$/.exec(trimmed)
   if (slashed && parseUnit(slashed[2]).kind !== 'other') return { name: slashed[1].trim(), unit: slashed[2] }
+  // Script-written headers put the unit after an underscore: time_s, ramp_V, transmission_mV.
+  const suffixed = /^(.*?[^_\s])_([A-Za-z\u00b5\u03bc]+)$/.exec(trimmed)
+  if (suffixed && parseUnit(suffixed[2]).kind !== 'other') return { name: suffixed[1], unit: suffixed[2] }
   return { name: trimmed, unit: undefined }
 }
 
