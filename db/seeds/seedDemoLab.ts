@@ -10,10 +10,10 @@ import { analyzeTrace } from '../../shared/analysis/analyzeTrace'
 import type { CavityInput } from '../../shared/api/cavitySchemas'
 import type { CavityGeometry } from '../../shared/cavity'
 import { isEngineError } from '../../shared/errors'
+import { formatSweptTraceCsv } from '../../shared/sim/formatSweptTraceCsv'
 import { generateSweptTrace } from '../../shared/sim/generateSweptTrace'
 import { simPresets } from '../../shared/sim/simPresets'
 import type { SweptTraceOptions } from '../../shared/sim/types'
-import { formatTraceCsv } from '../../shared/trace/formatTraceCsv'
 import { readTrace } from '../../shared/trace/readTrace'
 
 const DAY_MS = 86_400_000
@@ -141,18 +141,7 @@ export async function seedDemoLab(knex: Knex, options: { now?: Date } = {}): Pro
         orderPowers: orderPowersFor(demo.preset, demo.fractions[index]),
         seed: (demo.preset.seed ?? 1) * 100 + index,
       })
-      const csv = formatTraceCsv(
-        {
-          sampleInterval: simulated.sampleIntervalSeconds,
-          startTime: simulated.tSeconds[0],
-          channels: [
-            { name: 'ramp', unit: 'V', values: simulated.rampV ?? new Float64Array(simulated.tSeconds.length) },
-            { name: 'transmission', unit: 'V', values: simulated.transmissionV },
-          ],
-          metadata: { Source: 'demo generator', Note: demo.notes[index] },
-        },
-        { layout: 'preamble-header', significantDigits: 6 },
-      )
+      const csv = formatSweptTraceCsv(simulated, { layout: 'preamble-header', significantDigits: 6, metadata: { Source: 'demo generator', Note: demo.notes[index] } })
       const bytes = Buffer.from(csv)
       const [trace] = await knex('traces')
         .insert({

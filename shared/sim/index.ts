@@ -1,4 +1,5 @@
 /** Synthetic swept-cavity traces with known truth, for tests, accuracy checks and demo data. */
+export { formatSweptTraceCsv } from './formatSweptTraceCsv'
 export { generateSweptTrace } from './generateSweptTrace'
 export { simPresets } from './simPresets'
 export type { CavityGeometry, SimulatedPeakTruth, SweptTrace, SweptTraceOptions, SweptTraceTruth } from './types'

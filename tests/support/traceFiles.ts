@@ -3,9 +3,9 @@ import { mkdtempSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import type { CavityGeometry } from '../../shared/cavity'
+import { formatSweptTraceCsv } from '../../shared/sim/formatSweptTraceCsv'
 import { generateSweptTrace } from '../../shared/sim/generateSweptTrace'
 import type { SweptTraceOptions } from '../../shared/sim/types'
-import { formatTraceCsv } from '../../shared/trace/formatTraceCsv'
 
 /** The cavity the generated traces belong to (plano-concave, 1064 nm). */
 export const testCavityGeometry: CavityGeometry = { wavelengthNm: 1064, lengthMm: 100, roc1Mm: null, roc2Mm: 500 }
@@ -24,17 +24,7 @@ export function generatedTraceCsv(overrides: Partial<SweptTraceOptions> = {}): s
     seed: 7,
     ...overrides,
   })
-  return formatTraceCsv(
-    {
-      sampleInterval: trace.sampleIntervalSeconds,
-      startTime: trace.tSeconds[0],
-      channels: [
-        { name: 'ramp', unit: 'V', values: trace.rampV ?? new Float64Array(trace.tSeconds.length) },
-        { name: 'transmission', unit: 'V', values: trace.transmissionV },
-      ],
-    },
-    { layout: 'plain-columns', significantDigits: 7 },
-  )
+  return formatSweptTraceCsv(trace, { layout: 'plain-columns', significantDigits: 7 })
 }
 
 /** Write text to a file in a fresh temporary folder; returns its path. */

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { analyzeTrace } from '../../../shared/analysis/analyzeTrace'
 import type { CavityGeometry } from '../../../shared/cavity'
 import { generateSweptTrace } from '../../../shared/sim/generateSweptTrace'
-import type { Trace } from '../../../shared/trace/types'
+import { traceFromSim } from './traceFromSim'
 
 const cavity: CavityGeometry = { wavelengthNm: 1064, lengthMm: 100, roc1Mm: null, roc2Mm: 500 }
 
@@ -16,19 +16,7 @@ describe('a sweep with a single TEM00 resonance', () => {
     expect(swept.length).toBeGreaterThan(1)
     // What can be known without a calibration: TEM00 power against all resonance power in the sweep (from the truth).
     const seenShare = fundamentals[0].power / swept.reduce((sum, p) => sum + p.power, 0)
-    const trace: Trace = {
-      sampleCount: sim.tSeconds.length,
-      sampleInterval: sim.sampleIntervalSeconds,
-      startTime: sim.tSeconds[0],
-      time: sim.tSeconds,
-      channels: [
-        { name: 'ramp', unit: 'V', values: sim.rampV!, role: 'ramp', roleEvidence: 'test' },
-        { name: 'transmission', unit: 'V', values: sim.transmissionV, role: 'transmission', roleEvidence: 'test' },
-      ],
-      metadata: {},
-      warnings: [],
-    }
-    const result = analyzeTrace(trace, cavity)
+    const result = analyzeTrace(traceFromSim(sim), cavity)
     expect(result.warnings.map((w) => w.code)).toContain('single_fundamental')
     // Not the 100 % a TEM00-only count would give: the other resonances' power counts against it.
     expect(seenShare).toBeLessThan(0.95)

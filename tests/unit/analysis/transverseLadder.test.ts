@@ -3,7 +3,7 @@ import { analyzeTrace } from '../../../shared/analysis/analyzeTrace'
 import type { CavityGeometry } from '../../../shared/cavity'
 import { isTransverseLadder } from '../../../shared/orders/isTransverseLadder'
 import { generateSweptTrace } from '../../../shared/sim/generateSweptTrace'
-import type { Trace } from '../../../shared/trace/types'
+import { traceFromSim } from './traceFromSim'
 
 // 1064 nm, 100 mm, flat / 500 mm: ψ/π = 0.2952, so orders 1, 2, 3 sit 0.295, 0.590, 0.886 FSR above TEM00
 // (Siegman, "Lasers" (1986), ch. 19) — equally spaced, like a comb.
@@ -19,19 +19,7 @@ describe('one TEM00 followed by its transverse ladder', () => {
     expect(swept.filter((p) => p.order === 1 || p.order === 2)).toHaveLength(2)
     // Without a calibration the best figure is TEM00 power over all resonance power in the sweep (from the truth).
     const seenShare = fundamentals[0].power / swept.reduce((sum, p) => sum + p.power, 0)
-    const trace: Trace = {
-      sampleCount: sim.tSeconds.length,
-      sampleInterval: sim.sampleIntervalSeconds,
-      startTime: sim.tSeconds[0],
-      time: sim.tSeconds,
-      channels: [
-        { name: 'ramp', unit: 'V', values: sim.rampV!, role: 'ramp', roleEvidence: 'test' },
-        { name: 'transmission', unit: 'V', values: sim.transmissionV, role: 'transmission', roleEvidence: 'test' },
-      ],
-      metadata: {},
-      warnings: [],
-    }
-    const result = analyzeTrace(trace, cavity)
+    const result = analyzeTrace(traceFromSim(sim), cavity)
     const codes = result.warnings.map((w) => w.code)
     expect(codes).toContain('single_fundamental')
     expect(codes).not.toContain('two_fundamentals')
