@@ -10,12 +10,12 @@ import { fitResonanceShape } from '../peaks/fitResonanceShape'
 import { findSweepInData } from '../sweep/findSweepInData'
 import { calibrateWithOrders } from '../calibration/calibrateWithOrders'
 import { orderFamilies } from '../orders/orderFamilies'
-import { fitOrderPowers, type PredictedLine } from '../orders/fitOrderPowers'
+import { fitOrderPowers, type OrderPowerFit, type PredictedLine } from '../orders/fitOrderPowers'
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { findFundamentals, type FundamentalComb } from '../orders/findFundamentals'
 import { isTransverseLadder } from '../orders/isTransverseLadder'
-import { assignOrders, type OrderLabel } from '../orders/assignOrders'
+import { assignOrders, type OrderAssignment, type OrderLabel } from '../orders/assignOrders'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings } from './collectWarnings'
@@ -114,30 +114,65 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   let gouy = predictedGouy
   let orderResidual: number | null = null
   if (calibration) {
+    const firstCalibration: SweepCalibration = calibration
     const sidebandForAssignment = sidebandOffsetFsr === null ? null : frac(sidebandOffsetFsr)
-    const assign = (cal: SweepCalibration, psi: number, tolerance: number, maxShift: number) =>
+    // With three or more TEM00 resonances only the resonances between the first and the last of them vote on the
+    // direction and the Gouy phase: outside, the calibration is extrapolated, and a record without a ramp channel
+    // may run past a turn of the sweep, where TEM00 resonances come back mirrored at transverse places.
+    const combTimesSorted = comb.members.map((k) => tOf(measured[k])).sort((a, b) => a - b)
+    const votes = (i: number) => {
+      if (comb.members.length < 3) return true
+      const t = tOf(measured[i])
+      return t >= combTimesSorted[0] && t <= combTimesSorted[combTimesSorted.length - 1]
+    }
+    const assign = (cal: SweepCalibration, psi: number, tolerance: number, maxShift: number, directions: ('up' | 'down')[]) =>
       assignOrders(
-        measured.map((m, i) => ({ positionFsr: frequencyAt(cal, tOf(m)), weight: m.heightV, fundamental: isFundamental.has(i) })),
+        measured.map((m, i) => ({ positionFsr: frequencyAt(cal, tOf(m)), weight: votes(i) ? m.heightV : 0, fundamental: isFundamental.has(i) })),
         psi,
-        { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandForAssignment, allowedOrders: families.leaders, maxGouyShiftRad: maxShift },
+        { maxOrder: MAX_ORDER, toleranceFsr: tolerance, sidebandOffsetFsr: sidebandForAssignment, allowedOrders: families.leaders, maxGouyShiftRad: maxShift, directions },
       )
     // ψ is refined only when three or more TEM00 resonances pin the sweep: with two, a bend of the sweep and a
     // change of ψ move the transverse modes alike and cannot be told apart.
     const maxShift = comb.members.length >= 3 ? 0.03 * predictedGouy : 0
-    let assignment = assign(calibration, predictedGouy, toleranceFsr, maxShift)
-    for (let round = 0; round < 2; round++) {
-      const points = measured
-        .map((m, i) => ({ m, l: assignment.labels[i] }))
-        .filter(({ l }) => l.kind === 'carrier' && l.order !== null)
-        .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: Math.min(m.heightV / sigmaV, 200) ** 2 }))
-      const refined = calibrateWithOrders(points, calibration, assignment.direction, predictedGouy, { maxGouyShiftRad: maxShift, outlierFsr: Math.max(1e-4, 0.5 * linewidthFsr) })
-      calibration = refined.calibration
-      gouy = refined.gouyRad
-      assignment = assign(calibration, gouy, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * predictedGouy)
+    const assignAndRefine = (directions: ('up' | 'down')[]) => {
+      let cal = firstCalibration
+      let psi = predictedGouy
+      let assignment = assign(cal, psi, toleranceFsr, maxShift, directions)
+      for (let round = 0; round < 2; round++) {
+        const points = measured
+          .map((m, i) => ({ m, l: assignment.labels[i] }))
+          .filter(({ l }, i) => l.kind === 'carrier' && l.order !== null && votes(i))
+          .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: Math.min(m.heightV / sigmaV, 200) ** 2 }))
+        const refined = calibrateWithOrders(points, cal, assignment.direction, predictedGouy, { maxGouyShiftRad: maxShift, outlierFsr: Math.max(1e-4, 0.5 * linewidthFsr) })
+        cal = refined.calibration
+        psi = refined.gouyRad
+        assignment = assign(cal, psi, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * predictedGouy, directions)
+      }
+      return { assignment, calibration: cal, gouy: psi }
     }
+    let outcome = assignAndRefine(['up', 'down'])
+    directionEvidence = outcome.assignment.directionEvidence
+    if (!outcome.assignment.directionSettled && finesse) {
+      // The resonances found do not settle the direction (none stood out, or the pattern is nearly symmetric):
+      // measure every order at its predicted places for both directions, where the matched filter sums the weak
+      // lines of every FSR, and keep the direction whose transverse lines stand out more.
+      const verdict = directionByLineModel((d, o) => ({
+        signal, raw: part, darkLevelV, sigmaV, calibration: o.calibration, direction: d, gouy: o.gouy, finesse: finesse!.value,
+        sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((sh) => sh.sidebandRatio)) } : null,
+        orders: families.leaders.filter((order) => order <= ALWAYS_MEASURED_ORDERS), detected: [], placementToleranceFsr: 0,
+        firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
+        startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth, preferHeight: true,
+      }), outcome, assignAndRefine)
+      if (verdict) {
+        outcome = verdict.outcome
+        directionEvidence = verdict.evidence
+      }
+    }
+    const assignment = outcome.assignment
+    calibration = outcome.calibration
+    gouy = outcome.gouy
     labels = assignment.labels
     direction = assignment.direction
-    directionEvidence = assignment.directionEvidence
     orderResidual = assignment.residualRmsFsr
   } else {
     labels = measured.map((_, i) =>
@@ -228,6 +263,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     finesseError: finesse?.error ?? null,
     linewidthHz: finesse?.value ? fsrHz / finesse.value : null,
     orders,
+    belowNoiseShare: shares.belowNoiseShare,
     misalignmentShare,
     mismatchShare,
     reading: calibration
@@ -580,6 +616,8 @@ interface Shares {
   shareOfPeak: (order: number, positionFsr: number) => number
   /** Finesse refined with the line model (null when the shares do not come from it). */
   finesse: number | null
+  /** Summed share of the orders measured but not standing out of the noise (0 when shares come from peaks found). */
+  belowNoiseShare: number
 }
 
 /** χ² per degree of freedom above which the line model is not trusted for heights. */
@@ -620,6 +658,7 @@ function peakAreaShares(
     measure: 'area',
     reducedChiSquare: null,
     finesse: null,
+    belowNoiseShare: 0,
     shareOfPeak: (order, positionFsr) => {
       const i = positions.indexOf(positionFsr)
       return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
@@ -630,7 +669,14 @@ function peakAreaShares(
 /** Lines are modelled out to ± this many linewidths (at most half an FSR): the Airy wing left out there is 1e-4 of the height (1/(4·50²)), below the noise of any record. */
 const SUPPORT_LINEWIDTHS = 50
 
-function measureOrderShares(input: ShareInputs): Shares {
+/** The predicted lines of every order over the sweep, and the samples they reach (all, and every k-th for searches). */
+interface LineProblem {
+  lines: PredictedLine[]
+  all: { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; background: { x: Float64Array; degree: number } }
+  coarse: { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; background: { x: Float64Array; degree: number } }
+}
+
+function lineProblem(input: ShareInputs): LineProblem {
   const { signal, calibration, direction, gouy, finesse, firstIndex, lastIndex } = input
   const n = signal.length
   const c = calibration.coefficients
@@ -649,10 +695,15 @@ function measureOrderShares(input: ShareInputs): Shares {
   const sign = direction === 'up' ? 1 : -1
   const lines: PredictedLine[] = []
   const epsilon = 1e-6
+  const sidebandReach = input.sidebands && input.sidebands.ratio > 0 ? input.sidebands.offsetFsr : 0
+  const support = Math.min(0.5, SUPPORT_LINEWIDTHS / finesse) + sidebandReach
+  // Lines just past either end of the record are modelled too (not counted): a tall resonance cut by the end of
+  // the record leaves its wing in the data.
+  const reach = Math.min(support, 10 / finesse + sidebandReach)
   for (let p = Math.floor(lo) - 1; p <= Math.ceil(hi) + 1; p++) {
     for (const order of input.orders) {
       const at = p + sign * transverseOffsetFsr(order, gouy)
-      if (at < lo - 0.5 / finesse || at > hi + 0.5 / finesse) continue
+      if (at < lo - reach || at > hi + reach) continue
       const counted = direction === 'up' ? at >= firstIndex - epsilon && at < lastIndex - epsilon : at > firstIndex + epsilon && at <= lastIndex + epsilon
       // A line found where its order was matched sits where it was found: the calibration between TEM00
       // resonances is only as good as the sweep model, and a line misplaced by a linewidth loses its height.
@@ -667,21 +718,12 @@ function measureOrderShares(input: ShareInputs): Shares {
       lines.push({ nu: placed, order, counted })
     }
   }
-  const sidebandReach = input.sidebands && input.sidebands.ratio > 0 ? input.sidebands.offsetFsr : 0
-  const support = Math.min(0.5, SUPPORT_LINEWIDTHS / finesse) + sidebandReach
   const centres = Float64Array.from(lines, (l) => l.nu).sort()
   // The line model sees the record less its dark level, not the drift-following baseline: block levels also
   // carry the wings of the resonances in each block, which would bend the lines. Slow drift is a quadratic
   // background fitted with the lines instead.
   const { y, nu, stepFsr, x } = samplesNearLines(input.raw, input.darkLevelV, cell, gridNu, centres, support, u0, du, c)
-  const background = { x, degree: 2 }
-  // The shared linewidth is refined with the heights: every line of every order, their sidebands and the wings
-  // of their neighbours share one Airy width on the calibrated axis, so the finesse comes from all of them and
-  // not from TEM00 fits that see the neighbours' wings as baseline. The samples stay the same at every trial
-  // (support fixed in FSR), so the residuals compare.
-  // Sideband power is refined too, in turn with the width (coordinate descent): sidebands closer than a few
-  // linewidths blur into the carrier and trade off with the width; farther ones lie outside the TEM00 fits.
-  // The search runs on every k-th sample (about 8 per linewidth pin a width; on long windows down to 4 per
+  // Searches run on every k-th sample (about 8 per linewidth pin a width; on long windows down to 4 per
   // linewidth, keeping it near 15,000 samples); the final fit uses all.
   const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 15_000)))
   const every = (a: Float64Array) => {
@@ -690,7 +732,107 @@ function measureOrderShares(input: ShareInputs): Shares {
     for (let i = 0, k = 0; i < a.length; i += stride, k++) out[k] = a[i]
     return out
   }
-  const coarse = { y: every(y), nu: every(nu), stepFsr: every(stepFsr), background: { x: every(x), degree: 2 } }
+  return {
+    lines,
+    all: { y, nu, stepFsr, background: { x, degree: 2 } },
+    coarse: { y: every(y), nu: every(nu), stepFsr: every(stepFsr), background: { x: every(x), degree: 2 } },
+  }
+}
+
+/** Per order: the summed fitted heights of its counted lines and the variance of that sum. */
+function orderHeightSums(lines: PredictedLine[], fit: OrderPowerFit, order: number): { heightSum: number; heightVariance: number } {
+  const m = lines.length
+  let heightSum = 0
+  let heightVariance = 0
+  for (let j = 0; j < m; j++) {
+    if (!lines[j].counted || lines[j].order !== order) continue
+    heightSum += fit.lines[j].heightV
+    for (let l = 0; l < m; l++) if (lines[l].counted && lines[l].order === order) heightVariance += fit.covariance[j * m + l]
+  }
+  return { heightSum, heightVariance }
+}
+
+/** Difference of the transverse evidence (Σ z² over orders ≥ 1) that settles a direction: about 3σ (common practice). */
+const DIRECTION_EVIDENCE = 9
+
+/**
+ * The sweep direction from the line model when the resonances found leave it open. For each direction every order
+ * is fitted at its predicted places (the matched filter over all FSRs); the evidence is Σ z² over orders ≥ 1 with
+ * z the summed height over its standard error, counting only positive z (a power cannot be negative). The direction
+ * whose evidence is higher by DIRECTION_EVIDENCE wins and its assignment is redone with that direction imposed;
+ * otherwise the assignment's own choice stands. Null when the line model cannot be set up.
+ */
+function directionByLineModel<O extends { assignment: OrderAssignment; calibration: SweepCalibration; gouy: number }>(
+  inputFor: (direction: 'up' | 'down', outcome: O) => ShareInputs,
+  outcome: O,
+  assignAndRefine: (directions: ('up' | 'down')[]) => O,
+): { outcome: O; evidence: string } | null {
+  // When the orders' places mirror onto one another (ψ near a simple fraction of π) the two directions put lines
+  // at the same places with the orders swapped: the line model has nothing to add to the assignment's prior.
+  const probe = inputFor(outcome.assignment.direction, outcome)
+  const offsets = probe.orders.filter((order) => order > 0).map((order) => transverseOffsetFsr(order, probe.gouy))
+  const near = Math.max(2 / probe.finesse, 1e-3)
+  const circular = (d: number) => Math.abs(d - Math.round(d))
+  if (offsets.every((a) => offsets.some((b) => circular(a + b) <= near))) return null
+  const evidence = (['up', 'down'] as const).map((d) => {
+    // Each direction at its own refined calibration and Gouy phase.
+    const own = d === outcome.assignment.direction ? outcome : assignAndRefine([d])
+    const input = inputFor(d, own)
+    if (input.orders.length < 2) return null
+    const problem = lineProblem(input)
+    // All samples: the weak lines need every one of them (the coarse set would cost √stride in significance).
+    const on = problem.all
+    if (on.y.length <= problem.lines.length + 3) return null
+    const fit = fitOrderPowers(on.y, on.nu, problem.lines, {
+      finesse: input.finesse,
+      sidebands: input.sidebands,
+      sigmaV: input.sigmaV,
+      supportLinewidths: SUPPORT_LINEWIDTHS,
+      stepFsr: on.stepFsr,
+      background: on.background,
+      areaLinewidths: 0,
+    })
+    // A model that does not follow the data (split, ringing or distorted lines) cannot tell the directions apart;
+    // a moderate misfit widens the errors by √χ²ᵥ (common practice).
+    if (!(fit.reducedChiSquare <= MAX_MODEL_CHI_SQUARE)) return null
+    const widen = Math.sqrt(Math.max(1, fit.reducedChiSquare))
+    const z = input.orders
+      .filter((order) => order > 0)
+      .map((order) => {
+        const { heightSum, heightVariance } = orderHeightSums(problem.lines, fit, order)
+        return { order, z: heightVariance > 0 ? heightSum / (widen * Math.sqrt(heightVariance)) : 0 }
+      })
+    return { direction: d, own, total: z.reduce((sum, o) => sum + Math.max(0, o.z) ** 2, 0), z }
+  })
+  if (!evidence[0] || !evidence[1]) return null
+  const [up, down] = evidence as NonNullable<(typeof evidence)[number]>[]
+  const winner = up.total >= down.total ? up : down
+  const loser = winner === up ? down : up
+  const meaning = (d: 'up' | 'down') => (d === 'up' ? 'optical frequency rises with time' : 'optical frequency falls with time')
+  const strongest = winner.z.reduce((a, b) => (b.z > a.z ? b : a))
+  if (winner.total - loser.total < DIRECTION_EVIDENCE) {
+    return {
+      outcome,
+      evidence: `${outcome.assignment.directionEvidence} The weak lines measured at their predicted places over every FSR do not decide it either (evidence ${fmt(up.total)} for up, ${fmt(down.total)} for down).`,
+    }
+  }
+  return {
+    outcome: winner.own,
+    evidence: `No transverse resonance settled the direction on its own; measured at their predicted places over every FSR, the transverse orders stand out for ${winner.direction} (${meaning(winner.direction)}): order ${strongest.order} at ${fmt(strongest.z)}σ, evidence ${fmt(winner.total)} against ${fmt(loser.total)} for ${loser.direction}.`,
+  }
+}
+
+function measureOrderShares(input: ShareInputs): Shares {
+  const { finesse } = input
+  const { lines, all, coarse } = lineProblem(input)
+  const { y, nu, stepFsr, background } = all
+  // The shared linewidth is refined with the heights: every line of every order, their sidebands and the wings
+  // of their neighbours share one Airy width on the calibrated axis, so the finesse comes from all of them and
+  // not from TEM00 fits that see the neighbours' wings as baseline. The samples stay the same at every trial
+  // (support fixed in FSR), so the residuals compare.
+  // Sideband power is refined too, in turn with the width (coordinate descent): sidebands closer than a few
+  // linewidths blur into the carrier and trade off with the width; farther ones lie outside the TEM00 fits.
+  // The search runs on the coarse samples; the final fit uses all.
   const fitWith = (f: number, sidebands: ShareInputs['sidebands'], on = coarse) =>
     fitOrderPowers(on.y, on.nu, lines, {
       finesse: f,
@@ -740,23 +882,38 @@ function measureOrderShares(input: ShareInputs): Shares {
     const s = sums.get(order)!
     return order === 0 ? s.value > 0 : s.value > 0 && (significant(s.heightSum, s.heightVariance) || significant(s.value, s.variance))
   })
+  // The total counts every order measured, reported or not: leaving out the orders below the noise would push the
+  // TEM00 fraction up by their power (their estimates average to their true power, zero for an empty order).
   let total = 0
-  for (const order of reported) total += sums.get(order)!.value
-  if (!(total > 0)) throw new EngineError('no_resonances', 'No carrier resonance could be measured in the selected sweep')
+  for (const order of input.orders) total += sums.get(order)!.value
+  if (!(sums.get(0)!.value > 0) || !(total > 0)) throw new EngineError('no_resonances', 'No carrier resonance could be measured in the selected sweep')
   const orders: Record<string, number> = {}
   for (const order of reported) orders[String(order)] = sums.get(order)!.value / total
-  const fundamentalFraction = orders['0'] ?? 0
-  // First-order error propagation of P0 / Σ P, orders taken as independent (common practice).
+  let belowNoise = 0
+  for (const order of input.orders) if (!reported.includes(order)) belowNoise += sums.get(order)!.value / total
+  const fundamentalFraction = Math.min(1, orders['0'] ?? 0)
+  // First-order error propagation of P0 / Σ P (Bevington & Robinson, "Data Reduction and Error Analysis", §3.2):
+  // with heights, through the full covariance of the line heights (the slow background they share correlates
+  // them); with areas, orders taken as independent (common practice).
   let variance = 0
-  for (const order of reported) {
-    const d = order === 0 ? (1 - fundamentalFraction) / total : -fundamentalFraction / total
-    variance += d * d * Math.max(sums.get(order)!.variance, 0)
+  if (useHeight) {
+    const gradient = lines.map((l) => (l.counted && input.orders.includes(l.order) ? ((l.order === 0 ? 1 : 0) - fundamentalFraction) / total : 0))
+    for (let j = 0; j < m; j++) {
+      if (gradient[j] === 0) continue
+      for (let l = 0; l < m; l++) if (gradient[l] !== 0) variance += gradient[j] * fit.covariance[j * m + l] * gradient[l]
+    }
+  } else {
+    for (const order of input.orders) {
+      const d = order === 0 ? (1 - fundamentalFraction) / total : -fundamentalFraction / total
+      variance += d * d * Math.max(sums.get(order)!.variance, 0)
+    }
   }
   const tolerance = Math.max(3 / finesse, 0.005)
   return {
     orders,
     fundamentalFraction,
-    fundamentalFractionError: Number.isFinite(variance) ? Math.sqrt(variance) : null,
+    fundamentalFractionError: Number.isFinite(variance) ? Math.sqrt(Math.max(variance, 0)) : null,
+    belowNoiseShare: belowNoise,
     measure: useHeight ? 'height' : 'area',
     reducedChiSquare: Number.isFinite(fit.reducedChiSquare) ? fit.reducedChiSquare : null,
     finesse: Number.isFinite(fit.reducedChiSquare) ? fittedFinesse : null,
@@ -939,6 +1096,7 @@ function fundamentalOnlyShares(measured: MeasuredResonance[], members: number[])
     measure: 'area',
     reducedChiSquare: null,
     finesse: null,
+    belowNoiseShare: 0,
     shareOfPeak: (order) => (order === 0 && members.length > 0 ? fraction / members.length : 0),
   }
 }

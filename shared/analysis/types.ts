@@ -36,8 +36,17 @@ export const analysisResultSchema = z.object({
   finesse: z.number().nullable(),
   finesseError: z.number().nullable(),
   linewidthHz: z.number().nullable(),
-  /** Carrier power share per transverse order, keyed "0", "1", …; sums to 1. */
+  /**
+   * Carrier power share per transverse order that stands out of the noise (3σ), keyed "0", "1", …. With
+   * `belowNoiseShare` it sums to 1.
+   */
   orders: z.record(z.string(), z.number()),
+  /**
+   * Summed share of the orders measured at their predicted places that do not stand out of the noise. They are
+   * counted in the total so that leaving them out does not raise the TEM00 fraction; noise can make it slightly
+   * negative. Absent in results stored before it was reported.
+   */
+  belowNoiseShare: z.number().optional(),
   misalignmentShare: z.number(),
   mismatchShare: z.number(),
   reading: z.string(),

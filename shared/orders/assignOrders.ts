@@ -33,6 +33,8 @@ export interface AssignOrdersOptions {
    * Orders that may be assigned (e.g. the lowest member of each degenerate family only). @default 0 … maxOrder
    */
   allowedOrders?: number[]
+  /** Sweep directions tried (one to impose a direction decided elsewhere). @default ['up', 'down'] */
+  directions?: ('up' | 'down')[]
 }
 
 export interface OrderAssignment {
@@ -45,6 +47,11 @@ export interface OrderAssignment {
   residualRmsFsr: number
   /** What decided the direction, in one sentence. */
   directionEvidence: string
+  /**
+   * True when the transverse resonances' positions decide the direction (the mirrored pattern matches clearly
+   * less); false when nothing was matched or both directions match about equally.
+   */
+  directionSettled: boolean
 }
 
 /**
@@ -61,11 +68,12 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     sidebandMaxOrder = 2,
     maxGouyShiftRad = 0.08,
     allowedOrders,
+    directions = ['up', 'down'],
   } = options
   const orders = allowedOrders ?? Array.from({ length: maxOrder + 1 }, (_, k) => k)
-  let best: (Omit<OrderAssignment, 'directionEvidence'> & { score: number; positionScore: number }) | null = null
+  let best: (Omit<OrderAssignment, 'directionEvidence' | 'directionSettled'> & { score: number; positionScore: number }) | null = null
   const positionScores: number[] = []
-  for (const direction of ['up', 'down'] as const) {
+  for (const direction of directions) {
     const positions = peaks.map((p) => (direction === 'up' ? frac(p.positionFsr) : frac(-p.positionFsr)))
     let gouy = predictedGouyRad
     let labels: OrderLabel[]
@@ -81,9 +89,12 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     for (let i = 0; i < peaks.length; i++) {
       const l = labels[i]
       if (l.kind === 'unassigned' || peaks[i].fundamental) continue
-      positionScore += peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))
-      // A mirrored spectrum also fits with ψ → π − ψ and high orders: prefer low orders and a small ψ change.
-      score += (peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))) / (1 + 0.1 * (l.order ?? 0))
+      // Sidebands sit symmetrically about their carrier: they say nothing about the direction.
+      if (l.kind === 'carrier') {
+        positionScore += peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))
+        // A mirrored spectrum also fits with ψ → π − ψ and high orders: prefer low orders and a small ψ change.
+        score += (peaks[i].weight * (1 - Math.abs(l.residualFsr) / (2 * toleranceFsr))) / (1 + 0.1 * (l.order ?? 0))
+      }
       ss += peaks[i].weight * l.residualFsr ** 2
       ws += peaks[i].weight
     }
@@ -94,17 +105,20 @@ export function assignOrders(peaks: PlacedPeak[], predictedGouyRad: number, opti
     if (!best || candidate.score > best.score) best = candidate
   }
   const { labels, direction, measuredGouyRad, residualRmsFsr, positionScore } = best!
-  const other = Math.min(...positionScores.filter((_, k) => k !== (direction === 'up' ? 0 : 1)))
+  const other = directions.length > 1 ? Math.min(...positionScores.filter((_, k) => directions[k] !== direction)) : 0
   const meaning = direction === 'up' ? 'optical frequency rises with time' : 'optical frequency falls with time'
   let directionEvidence: string
-  if (positionScore === 0 && other === 0) {
+  if (directions.length === 1) {
+    directionEvidence = `${direction} (${meaning}) was given.`
+  } else if (positionScore === 0 && other === 0) {
     directionEvidence = `No transverse resonance was matched in either direction: ${direction} (${meaning}) is a default, not a finding.`
   } else if (positionScore > 1.1 * other) {
     directionEvidence = `The transverse resonances sit at their predicted places for ${direction} (${meaning}); the mirrored pattern matches ${positionScore > 0 ? Math.round((100 * other) / positionScore) : 0} % as much resonance height.`
   } else {
     directionEvidence = `The transverse resonances fit both directions about equally by position (a Gouy phase near a simple fraction of π makes the pattern nearly symmetric); ${direction} (${meaning}) was chosen because it gives the stronger resonances the lower orders, which carry more power in a reasonably matched cavity, and keeps the Gouy phase nearer the prediction.`
   }
-  return { labels, direction, measuredGouyRad, residualRmsFsr, directionEvidence }
+  const directionSettled = directions.length > 1 && positionScore > 1.1 * other
+  return { labels, direction, measuredGouyRad, residualRmsFsr, directionEvidence, directionSettled }
 }
 
 interface MatchSettings {
