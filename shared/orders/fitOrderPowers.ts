@@ -206,11 +206,19 @@ function accumulateNormalEquations(
     }
     used++
     squares[0] += y * y
+    // One triangle of the symmetric AᵀA: each pair once, folded together below.
     for (let a = 0; a < count; a++) {
       const ra = active[a] * p
       const va = values[a]
       aty[active[a]] += va * y
-      for (let b = 0; b < count; b++) ata[ra + active[b]] += va * values[b]
+      for (let b = a; b < count; b++) ata[ra + active[b]] += va * values[b]
+    }
+  }
+  for (let i = 0; i < p; i++) {
+    for (let j = i + 1; j < p; j++) {
+      const sum = ata[i * p + j] + ata[j * p + i]
+      ata[i * p + j] = sum
+      ata[j * p + i] = sum
     }
   }
   return used
