@@ -19,7 +19,7 @@ import { assignOrders, type OrderAssignment, type OrderLabel } from '../orders/a
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings } from './collectWarnings'
-import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
+import type { AnalysisPeak, AnalysisResult, AnalyzeOptions, OrderEstimate } from './types'
 
 /** Highest transverse order the assignment considers. */
 const MAX_ORDER = 10
@@ -264,6 +264,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     linewidthHz: finesse?.value ? fsrHz / finesse.value : null,
     orders,
     belowNoiseShare: shares.belowNoiseShare,
+    orderEstimates: shares.orderEstimates,
     misalignmentShare,
     mismatchShare,
     reading: calibration
@@ -618,6 +619,8 @@ interface Shares {
   finesse: number | null
   /** Summed share of the orders measured but not standing out of the noise (0 when shares come from peaks found). */
   belowNoiseShare: number
+  /** Every order measured by the line model, reported or not (empty when shares come from the peaks found). */
+  orderEstimates: OrderEstimate[]
 }
 
 /** χ² per degree of freedom above which the line model is not trusted for heights. */
@@ -659,6 +662,7 @@ function peakAreaShares(
     reducedChiSquare: null,
     finesse: null,
     belowNoiseShare: 0,
+    orderEstimates: [],
     shareOfPeak: (order, positionFsr) => {
       const i = positions.indexOf(positionFsr)
       return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
@@ -892,28 +896,41 @@ function measureOrderShares(input: ShareInputs): Shares {
   let belowNoise = 0
   for (const order of input.orders) if (!reported.includes(order)) belowNoise += sums.get(order)!.value / total
   const fundamentalFraction = Math.min(1, orders['0'] ?? 0)
-  // First-order error propagation of P0 / Σ P (Bevington & Robinson, "Data Reduction and Error Analysis", §3.2):
+  // First-order error propagation of P_N / Σ P (Bevington & Robinson, "Data Reduction and Error Analysis", §3.2):
   // with heights, through the full covariance of the line heights (the slow background they share correlates
   // them); with areas, orders taken as independent (common practice).
-  let variance = 0
-  if (useHeight) {
-    const gradient = lines.map((l) => (l.counted && input.orders.includes(l.order) ? ((l.order === 0 ? 1 : 0) - fundamentalFraction) / total : 0))
-    for (let j = 0; j < m; j++) {
-      if (gradient[j] === 0) continue
-      for (let l = 0; l < m; l++) if (gradient[l] !== 0) variance += gradient[j] * fit.covariance[j * m + l] * gradient[l]
+  const shareError = (order: number): number => {
+    const share = sums.get(order)!.value / total
+    let variance = 0
+    if (useHeight) {
+      const gradient = lines.map((l) => (l.counted && input.orders.includes(l.order) ? ((l.order === order ? 1 : 0) - share) / total : 0))
+      for (let j = 0; j < m; j++) {
+        if (gradient[j] === 0) continue
+        for (let l = 0; l < m; l++) if (gradient[l] !== 0) variance += gradient[j] * fit.covariance[j * m + l] * gradient[l]
+      }
+    } else {
+      for (const other of input.orders) variance += (((other === order ? 1 : 0) - share) / total) ** 2 * Math.max(sums.get(other)!.variance, 0)
     }
-  } else {
-    for (const order of input.orders) {
-      const d = order === 0 ? (1 - fundamentalFraction) / total : -fundamentalFraction / total
-      variance += d * d * Math.max(sums.get(order)!.variance, 0)
-    }
+    return Math.sqrt(Math.max(variance, 0))
   }
+  const orderEstimates = input.orders.map((order) => {
+    const s = sums.get(order)!
+    return {
+      order,
+      share: s.value / total,
+      shareError: shareError(order),
+      significance: s.variance > 0 ? s.value / Math.sqrt(s.variance) : null,
+      reported: reported.includes(order),
+    }
+  })
+  const fundamentalError = orderEstimates.find((e) => e.order === 0)!.shareError
   const tolerance = Math.max(3 / finesse, 0.005)
   return {
     orders,
     fundamentalFraction,
-    fundamentalFractionError: Number.isFinite(variance) ? Math.sqrt(Math.max(variance, 0)) : null,
+    fundamentalFractionError: Number.isFinite(fundamentalError) ? fundamentalError : null,
     belowNoiseShare: belowNoise,
+    orderEstimates: orderEstimates.map((e) => ({ ...e, shareError: Number.isFinite(e.shareError) ? e.shareError : null, significance: e.significance !== null && Number.isFinite(e.significance) ? e.significance : null })),
     measure: useHeight ? 'height' : 'area',
     reducedChiSquare: Number.isFinite(fit.reducedChiSquare) ? fit.reducedChiSquare : null,
     finesse: Number.isFinite(fit.reducedChiSquare) ? fittedFinesse : null,
@@ -1097,6 +1114,7 @@ function fundamentalOnlyShares(measured: MeasuredResonance[], members: number[])
     reducedChiSquare: null,
     finesse: null,
     belowNoiseShare: 0,
+    orderEstimates: [],
     shareOfPeak: (order) => (order === 0 && members.length > 0 ? fraction / members.length : 0),
   }
 }

@@ -21,6 +21,19 @@ export const analysisPeakSchema = z.object({
   fitted: z.boolean(),
 })
 
+/** One order as the line model measured it, whether or not it stands out of the noise. */
+export const orderEstimateSchema = z.object({
+  order: z.number().int(),
+  /** Share of the total carrier power (noise can make it slightly negative for an empty order). */
+  share: z.number(),
+  /** Standard error of the share, from the fit's covariance. */
+  shareError: z.number().nullable(),
+  /** The order's summed measure over its standard error (the matched filter's significance with heights). */
+  significance: z.number().nullable(),
+  /** True when the order is in `orders` (it stands out of the noise by 3σ). */
+  reported: z.boolean(),
+})
+
 /** What `analyzeTrace` returns; the command line prints it and the server stores it. */
 export const analysisResultSchema = z.object({
   fundamentalFraction: z.number().min(0).max(1),
@@ -47,6 +60,8 @@ export const analysisResultSchema = z.object({
    * negative. Absent in results stored before it was reported.
    */
   belowNoiseShare: z.number().optional(),
+  /** Every order measured at its predicted places, with its error; empty when shares come from the peaks found. Absent in older results. */
+  orderEstimates: z.array(orderEstimateSchema).optional(),
   misalignmentShare: z.number(),
   mismatchShare: z.number(),
   reading: z.string(),
@@ -88,6 +103,7 @@ export const analysisResultSchema = z.object({
 
 export type AnalysisResult = z.infer<typeof analysisResultSchema>
 export type AnalysisPeak = z.infer<typeof analysisPeakSchema>
+export type OrderEstimate = z.infer<typeof orderEstimateSchema>
 
 export interface AnalyzeOptions {
   /** Override role detection: channel name or 0-based index. */

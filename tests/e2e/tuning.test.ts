@@ -120,7 +120,10 @@ describe('the tuning loop in a real browser', () => {
     for (const order of ['0', '1', '2']) expect(labels).toContain(order)
     const tableText = await page.getByTestId('peak-table').innerText()
     expect(tableText).toContain('carrier')
-    expect(await page.getByTestId('order-shares').innerText()).toContain('TEM00')
+    const shares = await page.getByTestId('order-shares').innerText()
+    expect(shares).toContain('TEM00')
+    // Each share comes with its standard error from the line model's covariance.
+    expect(shares).toMatch(/TEM00\s+[\d.]+\s%\s±\s[\d.]+/)
     // Calibrated axis: switching to FSR units keeps the markers.
     await page.getByTestId('axis-mode').getByText('FSR').click()
     await page.waitForFunction(() => (document.querySelector('[data-testid="trace-chart"]')?.getAttribute('data-markers') ?? '').includes('0'))

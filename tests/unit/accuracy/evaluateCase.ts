@@ -82,8 +82,12 @@ export function evaluateCase(k: number, options: SweptTraceOptions): CaseOutcome
     }
     if (spl >= CRITERIA.wellSampled && !(fError <= CRITERIA.worstPoints)) both(`case ${k}: TEM00 fraction off by ${fError.toFixed(2)} points`)
     const significance = missing.map((order) => idealSignificance(truth, options, order))
-    const missedText = missing.map((order, i) => `${order} (${significance[i].toFixed(1)}σ)`)
-    if (missing.length) failures.push(`case ${k}: orders ${missedText.join(', ')} not labelled (ideal matched-filter significance in brackets)`)
+    const measuredText = (order: number) => {
+      const e = r.orderEstimates?.find((o) => o.order === order)
+      return e ? `; measured ${(100 * e.share).toFixed(2)} ± ${(100 * (e.shareError ?? NaN)).toFixed(2)} %, below 3σ` : ''
+    }
+    const missedText = missing.map((order, i) => `${order} (ideal ${significance[i].toFixed(1)}σ${measuredText(order)})`)
+    if (missing.length) failures.push(`case ${k}: orders ${missedText.join(', ')} not labelled (truth ${missing.map((o) => `${(100 * truth.orderShares[o]).toFixed(1)} %`).join(', ')})`)
     const detectable = missing.filter((_, i) => spl >= CRITERIA.wellSampled && significance[i] >= CRITERIA.detectableSigma)
     if (detectable.length) failuresDetectable.push(`case ${k}: detectable orders ${detectable.join(',')} not labelled`)
     if (!(fsrError <= CRITERIA.fsrRelative)) both(`case ${k}: FSR off by ${(100 * fsrError).toFixed(3)} %`)

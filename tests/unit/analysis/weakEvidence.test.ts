@@ -59,3 +59,32 @@ describe('weak or misleading evidence', () => {
     expect(Math.abs(mean)).toBeLessThan(0.015)
   })
 })
+
+describe('order estimates and their errors', () => {
+  it('when the line model measures the orders then every order has an estimate, the reported ones are the orders, and the shares sum to 1', () => {
+    const { result } = analyse({ ...accuracyCase(29), seed: 129 })
+    const estimates = result.orderEstimates!
+    expect(estimates.map((e) => e.order)).toEqual([0, 1, 2, 3, 4])
+    expect(estimates.reduce((sum, e) => sum + e.share, 0)).toBeCloseTo(1, 9)
+    expect(estimates.filter((e) => e.reported).map((e) => String(e.order))).toEqual(Object.keys(result.orders))
+    for (const e of estimates.filter((x) => x.reported)) expect(e.share).toBeCloseTo(result.orders[String(e.order)], 12)
+    expect(estimates[0].shareError).toBeCloseTo(result.fundamentalFractionError!, 12)
+    // Below 3σ means not reported, and the unreported shares make up belowNoiseShare.
+    for (const e of estimates.filter((x) => !x.reported)) expect(e.significance!).toBeLessThan(3)
+    expect(estimates.filter((e) => !e.reported).reduce((sum, e) => sum + e.share, 0)).toBeCloseTo(result.belowNoiseShare!, 12)
+  })
+
+  it('when the same cavity is swept 30 times with fresh noise then the TEM00 fraction scatters as its stated error says', () => {
+    // 20,000 samples, finesse 600, 3 % noise, sidebands: the pull (error / stated error) of an honest error bar
+    // has an RMS near 1 (Bevington & Robinson, "Data Reduction and Error Analysis", §4.1); 30 draws put the RMS
+    // within about ±0.13 of it (1/√(2·30)), so 0.7–1.4 leaves room.
+    const pulls: number[] = []
+    for (let seed = 0; seed < 30; seed++) {
+      const { result, truth } = analyse({ ...accuracyCase(13), seed: 7000 + seed })
+      pulls.push((result.fundamentalFraction - truth.fundamentalFraction) / result.fundamentalFractionError!)
+    }
+    const rms = Math.sqrt(pulls.reduce((sum, p) => sum + p * p, 0) / pulls.length)
+    expect(rms).toBeGreaterThan(0.7)
+    expect(rms).toBeLessThan(1.4)
+  })
+})
