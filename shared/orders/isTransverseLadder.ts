@@ -15,7 +15,8 @@ export interface IsTransverseLadderOptions {
  * at N·ψ/π FSR (mod 1) (Siegman, "Lasers" (1986), ch. 19), so consecutive orders are equally spaced, by ψ/π FSR
  * or (the other sweep direction) 1 − ψ/π FSR, and a ladder of them mimics a comb. The ladder reading is chosen when
  * the members fall in height by a large factor at every step from the tallest end, no second TEM00 of the ladder's
- * FSR would fall inside the sweep, and the ladder places the resonances at least as well as the comb does.
+ * FSR would fall inside the sweep, and the ladder places the resonances at least as well as the comb does (and,
+ * for a comb of two, places some resonance besides them).
  */
 export function isTransverseLadder(
   peaks: PeakPosition[],
@@ -42,13 +43,15 @@ export function isTransverseLadder(
   const orders = allowedOrders.filter((o) => Number.isInteger(o) && o >= 0)
 
   // Comb reading: TEM00 at the tallest member, FSR = spacing, the better of the two sweep directions.
-  const explainedBy = (fsrSamples: number, sign: number, stepFsr: number) => {
+  const members = new Set(comb.members)
+  const explainedBy = (fsrSamples: number, sign: number, stepFsr: number, othersOnly = false) => {
     const tolerance = toleranceSamples / fsrSamples
     let sum = 0
-    for (const p of peaks) {
+    peaks.forEach((p, i) => {
+      if (othersOnly && members.has(i)) return
       const nu = (sign * (p.center - first)) / fsrSamples
       if (orders.some((o) => circular(nu - o * stepFsr) <= tolerance)) sum += p.height
-    }
+    })
     return sum
   }
   const combScore = Math.max(explainedBy(spacing, 1, gouyStep), explainedBy(spacing, -1, gouyStep))
@@ -59,8 +62,13 @@ export function isTransverseLadder(
     // A second TEM00 one ladder FSR away inside the sweep would have joined the comb: this is no ladder.
     const otherInside = [first - fsrSamples, first + fsrSamples].some((c) => c >= 0 && c < sweepLengthSamples)
     if (otherInside) continue
-    // In the ladder's frame, order N lies at N·step FSR along the sweep from the TEM00.
-    if (explainedBy(fsrSamples, direction, step) >= combScore * (1 - 1e-9)) return true
+    // In the ladder's frame, order N lies at N·step FSR along the sweep from the TEM00. Two members and nothing
+    // else fit both readings (a TEM00 and an order 1 at half its height, or two TEM00 with the laser power
+    // falling): the ladder must then also place some other resonance, else the comb stands (TEM00 is the usual
+    // tall resonance).
+    const ladderScore = explainedBy(fsrSamples, direction, step)
+    const placesOthers = n >= 3 || explainedBy(fsrSamples, direction, step, true) > 0
+    if (placesOthers && ladderScore >= combScore * (1 - 1e-9)) return true
   }
   return false
 }

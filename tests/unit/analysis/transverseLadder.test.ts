@@ -50,4 +50,15 @@ describe('one TEM00 followed by its transverse ladder', () => {
     // In a longer sweep the ladder's second TEM00 would be visible: keep the comb reading.
     expect(isTransverseLadder(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 20000)).toBe(false)
   })
+
+  it('when only two tall resonances are seen and nothing else tells the readings apart then they stay a TEM00 comb', () => {
+    // Two TEM00 with the laser power halving between them fit the ladder reading (TEM00, then order 1 at half its
+    // height) exactly as well: with nothing to choose, TEM00 is the usual tall resonance (common practice).
+    const gouy = 0.2952 * Math.PI
+    const peaks = [
+      { center: 1000, height: 1 },
+      { center: 3000, height: 0.5 },
+    ]
+    expect(isTransverseLadder(peaks, { members: [0, 1], fsrIndex: [0, 1] }, gouy, 7000)).toBe(false)
+  })
 })
