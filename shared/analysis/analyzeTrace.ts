@@ -14,7 +14,7 @@ import { fitOrderPowers, type OrderPowerFit, type PredictedLine } from '../order
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { findFundamentals, type FundamentalComb } from '../orders/findFundamentals'
-import { isTransverseLadder } from '../orders/isTransverseLadder'
+import { ladderReading } from '../orders/isTransverseLadder'
 import { assignOrders, type OrderAssignment, type OrderLabel } from '../orders/assignOrders'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
@@ -228,6 +228,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
 
   const warnings: EngineWarning[] = [
     ...trace.warnings,
+    ...(comb.ladderPossible
+      ? [{
+          code: 'comb_or_ladder',
+          message: `The two tall resonances were read as two TEM00 one FSR apart, but they fit one TEM00 and its order-1 mode just as well (the smaller is ${fmt((100 * Math.min(...comb.members.map((k) => measured[k].heightV))) / Math.max(...comb.members.map((k) => measured[k].heightV)))} % of the taller and nothing else is seen). Sweep over more than one FSR so that a third TEM00 or the other orders decide it.`,
+        }]
+      : []),
     ...collectWarnings({
       part,
       signal,
@@ -398,7 +404,8 @@ function unlessLadder(
   const spanSamples = Math.abs(measured[comb.members[comb.members.length - 1]].centerIndex - measured[comb.members[0]].centerIndex)
   const spacing = spanSamples / (comb.fsrIndex[comb.fsrIndex.length - 1] - comb.fsrIndex[0])
   const toleranceSamples = Math.max(2 * roughWidth, 0.02 * spacing)
-  if (!isTransverseLadder(positions, comb, gouy, sweepLengthSamples, { allowedOrders, toleranceSamples })) return comb
+  const reading = ladderReading(positions, comb, gouy, sweepLengthSamples, { allowedOrders, toleranceSamples })
+  if (reading !== 'ladder') return reading === 'either' ? { ...comb, ladderPossible: true } : comb
   let tallest = comb.members[0]
   for (const k of comb.members) if (measured[k].heightV > measured[tallest].heightV) tallest = k
   return { members: [tallest], fsrIndex: [0] }

@@ -17,6 +17,8 @@ export interface FundamentalComb {
   members: number[]
   /** FSR index of each member (0 for the first; a skipped resonance leaves a gap). */
   fsrIndex: number[]
+  /** Set when two members alone fit one TEM00 and its order 1 as well (see ladderReading). */
+  ladderPossible?: boolean
 }
 
 /**

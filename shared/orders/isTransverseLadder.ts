@@ -25,17 +25,31 @@ export function isTransverseLadder(
   sweepLengthSamples: number,
   options: IsTransverseLadderOptions = {},
 ): boolean {
+  return ladderReading(peaks, comb, gouyOneWayRad, sweepLengthSamples, options) === 'ladder'
+}
+
+/**
+ * The same test with its third outcome: 'either' when a comb of two and nothing else fits both readings equally
+ * (the comb is then kept, and the result should say the other reading was possible).
+ */
+export function ladderReading(
+  peaks: PeakPosition[],
+  comb: FundamentalComb,
+  gouyOneWayRad: number,
+  sweepLengthSamples: number,
+  options: IsTransverseLadderOptions = {},
+): 'comb' | 'ladder' | 'either' {
   const { allowedOrders = [0, 1, 2, 3], maxStepRatio = 0.6 } = options
   const n = comb.members.length
-  if (n < 2) return false
-  for (let k = 1; k < n; k++) if (comb.fsrIndex[k] - comb.fsrIndex[k - 1] !== 1) return false
+  if (n < 2) return 'comb'
+  for (let k = 1; k < n; k++) if (comb.fsrIndex[k] - comb.fsrIndex[k - 1] !== 1) return 'comb'
   const heights = comb.members.map((i) => peaks[i].height)
   const ordered = heights[0] >= heights[n - 1] ? comb.members : comb.members.slice().reverse()
-  for (let k = 1; k < n; k++) if (peaks[ordered[k]].height > maxStepRatio * peaks[ordered[k - 1]].height) return false
+  for (let k = 1; k < n; k++) if (peaks[ordered[k]].height > maxStepRatio * peaks[ordered[k - 1]].height) return 'comb'
   const first = peaks[ordered[0]].center
   const last = peaks[ordered[n - 1]].center
   const spacing = Math.abs(last - first) / (n - 1)
-  if (!(spacing > 0)) return false
+  if (!(spacing > 0)) return 'comb'
   const direction = last > first ? 1 : -1
   const { toleranceSamples = 0.03 * spacing } = options
   const gouyStep = transverseOffsetFsr(1, gouyOneWayRad)
@@ -56,6 +70,7 @@ export function isTransverseLadder(
   }
   const combScore = Math.max(explainedBy(spacing, 1, gouyStep), explainedBy(spacing, -1, gouyStep))
 
+  let either = false
   for (const step of [gouyStep, 1 - gouyStep]) {
     if (step < 0.05 || step > 0.95) continue
     const fsrSamples = spacing / step
@@ -68,7 +83,10 @@ export function isTransverseLadder(
     // tall resonance).
     const ladderScore = explainedBy(fsrSamples, direction, step)
     const placesOthers = n >= 3 || explainedBy(fsrSamples, direction, step, true) > 0
-    if (placesOthers && ladderScore >= combScore * (1 - 1e-9)) return true
+    if (ladderScore >= combScore * (1 - 1e-9)) {
+      if (placesOthers) return 'ladder'
+      either = true
+    }
   }
-  return false
+  return either ? 'either' : 'comb'
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { analyzeTrace } from '../../../shared/analysis/analyzeTrace'
 import type { CavityGeometry } from '../../../shared/cavity'
-import { isTransverseLadder } from '../../../shared/orders/isTransverseLadder'
+import { isTransverseLadder, ladderReading } from '../../../shared/orders/isTransverseLadder'
 import { generateSweptTrace } from '../../../shared/sim/generateSweptTrace'
 import { traceFromSim } from './traceFromSim'
 
@@ -60,5 +60,15 @@ describe('one TEM00 followed by its transverse ladder', () => {
       { center: 3000, height: 0.5 },
     ]
     expect(isTransverseLadder(peaks, { members: [0, 1], fsrIndex: [0, 1] }, gouy, 7000)).toBe(false)
+    expect(ladderReading(peaks, { members: [0, 1], fsrIndex: [0, 1] }, gouy, 7000)).toBe('either')
+  })
+
+  it('when a short falling sweep shows only order 1 then TEM00 then the result says the two may be one TEM00 and its order 1', () => {
+    // 0.9 FSR, frequency falling: order 1 (20 %) then TEM00 (70 %) in time, order 2 outside the sweep.
+    const sim = generateSweptTrace({ cavity, gouyOneWayRad: 0, finesse: 300, orderPowers: [0.7, 0.2, 0.1], sampleCount: 20_000, fsrCount: 0.9, startDetuningFsr: 0.2, direction: 'down', noiseFraction: 0.002, seed: 3 })
+    const swept = sim.truth.peaks.filter((p) => p.t >= sim.truth.sweepStartSeconds! && p.t <= sim.truth.sweepEndSeconds!)
+    expect(swept.map((p) => p.order)).toEqual([1, 0])
+    const warning = analyzeTrace(traceFromSim(sim), cavity).warnings.find((w) => w.code === 'comb_or_ladder')
+    expect(warning?.message).toMatch(/one TEM00 and its order-1 mode just as well/)
   })
 })
