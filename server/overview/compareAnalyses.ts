@@ -30,6 +30,7 @@ async function comparedAnalysis(db: Db, id: string): Promise<ComparedAnalysis> {
     misalignmentShare: result.misalignmentShare,
     mismatchShare: result.mismatchShare,
     orders: result.orders,
+    belowNoiseShare: result.belowNoiseShare ?? 0,
   }
 }
 
@@ -50,6 +51,7 @@ export async function compareAnalyses(db: Db, aId: string, bId: string): Promise
       misalignmentShare: b.misalignmentShare - a.misalignmentShare,
       mismatchShare: b.mismatchShare - a.mismatchShare,
       orders: Object.fromEntries(orderKeys.map((key) => [key, (b.orders[key] ?? 0) - (a.orders[key] ?? 0)])),
+      belowNoiseShare: b.belowNoiseShare - a.belowNoiseShare,
       relative: { finesse: relative(b.finesse, a.finesse), linewidthHz: relative(b.linewidthHz, a.linewidthHz) },
     },
   }

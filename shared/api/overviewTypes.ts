@@ -50,8 +50,10 @@ export interface ComparedAnalysis {
   fsrSeconds: number | null
   misalignmentShare: number
   mismatchShare: number
-  /** Carrier power share per transverse order, keyed "0", "1", … */
+  /** Carrier power share per transverse order standing out of the noise, keyed "0", "1", … */
   orders: Record<string, number>
+  /** Summed share of the orders measured below the noise (0 for results stored before it was reported). */
+  belowNoiseShare: number
 }
 
 export interface Comparison {
@@ -67,6 +69,7 @@ export interface Comparison {
     mismatchShare: number
     /** Per order present in either; a missing order counts as 0. */
     orders: Record<string, number>
+    belowNoiseShare: number
     relative: { finesse: number | null; linewidthHz: number | null }
   }
 }

@@ -165,9 +165,11 @@ describe('history, overview and comparison', () => {
     for (const order of new Set([...Object.keys(resultA.orders), ...Object.keys(resultB.orders)])) {
       expect(body.difference.orders[order]).toBeCloseTo((resultB.orders[order] ?? 0) - (resultA.orders[order] ?? 0), 12)
     }
-    // The shares of each side sum to 1 (the result schema's promise), so their differences sum to 0.
+    // The reported shares and the share below the noise of each side sum to 1 (the result schema's promise), so
+    // their differences sum to 0.
+    expect(body.difference.belowNoiseShare).toBeCloseTo(resultB.belowNoiseShare - resultA.belowNoiseShare, 12)
     const sum = Object.values(body.difference.orders as Record<string, number>).reduce((total, value) => total + value, 0)
-    expect(sum).toBeCloseTo(0, 9)
+    expect(sum + body.difference.belowNoiseShare).toBeCloseTo(0, 9)
   })
 
   it('when a comparison names a failed, unknown or missing analysis then it is refused with the reason', async () => {
