@@ -86,6 +86,14 @@ describe('history, comparison and report as the demo experimenter', () => {
       expect(await page.locator('aside[aria-label="Main navigation"]').isVisible()).toBe(false)
       expect(await page.getByTestId('print-report').isVisible()).toBe(false)
       expect(await page.getByTestId('analysis-figures').isVisible()).toBe(true)
+      // The peak table prints every row: no scroll box hides the ones past the first screenful.
+      const peakRows = await page.getByTestId('peak-table').locator('tbody tr').count()
+      expect(peakRows).toBeGreaterThan(12)
+      const clipped = await page.evaluate(() => {
+        const box = document.querySelector('[data-testid="peak-table"] .p-datatable-table-container')
+        return box ? box.scrollHeight - box.clientHeight : -1
+      })
+      expect(clipped).toBe(0)
       await page.setViewportSize({ width: 794, height: 1123 }) // A4 at 96 dpi
       expect(statSync(await browser.screenshot('report-print')).size).toBeGreaterThan(30_000)
     } finally {
