@@ -21,6 +21,8 @@ const CERTIFIED_DIGITS = 11
 /** Timing: repeat a fit until this much wall time has passed (and at least MIN_RUNS times), report the mean. */
 const TIMING_BUDGET_MS = 300
 const MIN_RUNS = 3
+/** The digits the unit tests ask of our solver on these datasets (5 on Lanczos3, whose data carry 5 digits). */
+const GOOD_LRE = 6
 
 type Model = (b: number[]) => (x: number) => number
 
@@ -88,8 +90,12 @@ function packageSettings(): PackageSetting[] {
   return settings
 }
 
+const PACKAGE_SETTING_COUNT = packageSettings().length
+
 interface PackageOutcome {
   lre: number
+  /** How many settings reached LRE ≥ GOOD_LRE: the best setting is picked knowing the answer, a user cannot do that. */
+  goodSettings: number
   ms: number
   setting: string
   error?: string
@@ -108,7 +114,9 @@ function runPackageDefaults(data: NistDataset, model: Model, start: number[]): s
 function runPackage(data: NistDataset, model: Model, start: number[]): PackageOutcome {
   let best: PackageOutcome | null = null
   let firstError: string | undefined
-  for (const setting of packageSettings()) {
+  const settings = packageSettings()
+  let goodSettings = 0
+  for (const setting of settings) {
     const options = { ...setting.options(start), initialValues: start }
     const fit = () => levenbergMarquardt({ x: data.x, y: data.y }, model, options)
     try {
@@ -116,17 +124,19 @@ function runPackage(data: NistDataset, model: Model, start: number[]): PackageOu
       const result = fit()
       const ms = performance.now() - t0
       const lre = minLre(result.parameterValues, data.certified.params)
+      if (lre >= GOOD_LRE) goodSettings++
       // Keep the most accurate; among settings equally accurate to 0.1 digit, the faster.
       if (best === null || lre > best.lre + 0.05 || (Math.abs(lre - best.lre) <= 0.05 && ms < best.ms)) {
-        best = { lre, ms, setting: setting.label }
+        best = { lre, ms, setting: setting.label, goodSettings: 0 }
       }
     } catch (error) {
-      firstError ??= `${setting.label}: ${error instanceof Error ? error.message : String(error)}`
+      firstError ??= error instanceof Error ? error.message : String(error)
     }
   }
-  if (best === null) return { lre: NaN, ms: NaN, setting: '—', error: firstError }
-  const chosen = packageSettings().find((s) => s.label === best.setting)!
+  if (best === null) return { lre: NaN, ms: NaN, setting: '—', goodSettings, error: `(all ${settings.length} settings) ${firstError}` }
+  const chosen = settings.find((s) => s.label === best.setting)!
   const options = { ...chosen.options(start), initialValues: start }
+  best.goodSettings = goodSettings
   best.ms = timePerFit(() => levenbergMarquardt({ x: data.x, y: data.y }, model, options))
   return best
 }
@@ -150,7 +160,7 @@ function runOurs(data: NistDataset, model: Model, start: number[]): OursOutcome 
 
 export default async function fittersBenchmark(): Promise<void> {
   const rows: string[][] = [
-    ['dataset', 'start', 'ours: min LRE', 'ours ms', 'package defaults: min LRE', 'package best: min LRE', 'package ms', 'package setting'],
+    ['dataset', 'start', 'ours: min LRE', 'ours ms', 'package defaults: min LRE', 'package best: min LRE', 'package ms', 'package setting', `settings with LRE ≥ ${GOOD_LRE}`],
   ]
   for (const name of DATASETS) {
     const data = loadNistDataset(name)
@@ -167,6 +177,7 @@ export default async function fittersBenchmark(): Promise<void> {
         pkg.error ? `threw: ${pkg.error}` : pkg.lre.toFixed(1),
         pkg.error ? '—' : pkg.ms.toFixed(2),
         pkg.setting,
+        `${pkg.goodSettings}/${PACKAGE_SETTING_COUNT}`,
       ])
     }
   }
@@ -181,11 +192,13 @@ export default async function fittersBenchmark(): Promise<void> {
       `LRE = −log10(|est − cert|/|cert|) against the NIST StRD certified parameters, minimum over parameters, capped at ${CERTIFIED_DIGITS}`,
       '(McCullough, Am. Stat. 52, 358 (1998)); 0 means not one correct digit. ms = mean wall time per fit on this machine.',
       'Ours: fitLeastSquares with default options (central-difference Jacobian), as in the unit tests.',
-      'Package: ml-levenberg-marquardt, best of 27 settings per row: initial damping λ ∈ {0.01, 1, 100}; Jacobian',
+      `Package: ml-levenberg-marquardt, best of ${PACKAGE_SETTING_COUNT} settings per row: initial damping λ ∈ {0.01, 1, 100}; Jacobian`,
       'forward with the default 0.1 absolute step, forward with √ε·|start| or central with ∛ε·|start| per parameter;',
       'maxIterations ∈ {100, 1000, 10000}; errorTolerance 0 (its only stopping test is RSS ≤ errorTolerance).',
       'Ties within 0.1 digit go to the faster setting; "package ms" is for that setting. Package defaults: damping 0.01,',
       'forward differences with a 0.1 absolute step, 100 iterations, errorTolerance 1e-7 (the value in its code).',
+      'The best setting is picked knowing the certified answer, which a user fitting new data cannot do; the last column',
+      `counts the settings that reach ${GOOD_LRE} digits, what the unit tests ask of ours (5 for Lanczos3).`,
     ].join('\n'),
   )
 }
