@@ -711,6 +711,11 @@ function lineProblem(input: ShareInputs): LineProblem {
   // Lines just past either end of the record are modelled too (not counted): a tall resonance cut by the end of
   // the record leaves its wing in the data.
   const reach = Math.min(support, 10 / finesse + sidebandReach)
+  // Only the calibrated span (first to last TEM00, plus the reach) is modelled: beyond it the sweep model is
+  // extrapolated, and a record without a ramp channel may run past a turn of the sweep, where resonances come
+  // back at places no line predicts and would bend the shared linewidth.
+  lo = Math.max(lo, Math.min(firstIndex, lastIndex) - reach)
+  hi = Math.min(hi, Math.max(firstIndex, lastIndex) + reach)
   for (let p = Math.floor(lo) - 1; p <= Math.ceil(hi) + 1; p++) {
     for (const order of input.orders) {
       const at = p + sign * transverseOffsetFsr(order, gouy)
@@ -733,10 +738,10 @@ function lineProblem(input: ShareInputs): LineProblem {
   // The line model sees the record less its dark level, not the drift-following baseline: block levels also
   // carry the wings of the resonances in each block, which would bend the lines. Slow drift is a quadratic
   // background fitted with the lines instead.
-  const { y, nu, stepFsr, x } = samplesNearLines(input.raw, input.darkLevelV, cell, gridNu, centres, support, u0, du, c)
+  const { y, nu, stepFsr, x } = samplesNearLines(input.raw, input.darkLevelV, cell, gridNu, centres, support, u0, du, c, lo, hi)
   // Searches run on every k-th sample (about 8 per linewidth pin a width; on long windows down to 4 per
   // linewidth, keeping it near 15,000 samples); the final fit uses all.
-  const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 15_000)))
+  const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 8_000)))
   const every = (a: Float64Array) => {
     if (stride === 1) return a
     const out = new Float64Array(Math.ceil(a.length / stride))
@@ -836,7 +841,7 @@ function directionByLineModel<O extends { assignment: OrderAssignment; calibrati
 function measureOrderShares(input: ShareInputs): Shares {
   const { finesse } = input
   const { lines, all, coarse } = lineProblem(input)
-  const { y, nu, stepFsr, background } = all
+  const { y } = all
   // The shared linewidth is refined with the heights: every line of every order, their sidebands and the wings
   // of their neighbours share one Airy width on the calibrated axis, so the finesse comes from all of them and
   // not from TEM00 fits that see the neighbours' wings as baseline. The samples stay the same at every trial
@@ -844,7 +849,7 @@ function measureOrderShares(input: ShareInputs): Shares {
   // Sideband power is refined too, in turn with the width (coordinate descent): sidebands closer than a few
   // linewidths blur into the carrier and trade off with the width; farther ones lie outside the TEM00 fits.
   // The search runs on the coarse samples; the final fit uses all.
-  const fitWith = (f: number, sidebands: ShareInputs['sidebands'], on = coarse) =>
+  const fitWith = (f: number, sidebands: ShareInputs['sidebands'], on = coarse, residualOnly = on === coarse) =>
     fitOrderPowers(on.y, on.nu, lines, {
       finesse: f,
       sidebands,
@@ -852,7 +857,7 @@ function measureOrderShares(input: ShareInputs): Shares {
       supportLinewidths: (SUPPORT_LINEWIDTHS * f) / finesse,
       stepFsr: on.stepFsr,
       background: on.background,
-      residualOnly: on === coarse,
+      residualOnly,
     })
   let sidebands = input.sidebands
   let fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, finesse, 0.85 * finesse, 1.18 * finesse)
@@ -864,7 +869,16 @@ function measureOrderShares(input: ShareInputs): Shares {
       fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, finesse, 0.85 * finesse, 1.18 * finesse)
     }
   }
-  const fit = fitWith(fittedFinesse, sidebands, { y, nu, stepFsr, background })
+  if (coarse.y.length < y.length) {
+    // The coarse samples place the minimum to about a percent; one parabola through all samples at ±1.5 %
+    // takes the rest of the information (every sample counts for the width).
+    const h = 0.015
+    const at = (f: number) => fitWith(f, sidebands, all, true).reducedChiSquare
+    const [fm, f0, fp] = [at(fittedFinesse * Math.exp(-h)), at(fittedFinesse), at(fittedFinesse * Math.exp(h))]
+    const curvature = fp - 2 * f0 + fm
+    if (curvature > 0) fittedFinesse *= Math.exp(Math.min(h, Math.max(-h, (-h * (fp - fm)) / (2 * curvature))))
+  }
+  const fit = fitWith(fittedFinesse, sidebands, all)
   const useHeight = input.preferHeight && fit.reducedChiSquare <= MAX_LINE_CHI_SQUARE
   const m = lines.length
   // Per order: the summed heights with their covariance (the matched filter: the best detector in white noise)
@@ -1036,7 +1050,7 @@ function gridFrequencies(n: number, cell: number, u0: number, du: number, c: num
 
 /**
  * The samples within `support` of some line centre (whole grid cells whose ν range, widened by half its span for
- * curvature, meets a line's support), with their ν and their width on the ν axis.
+ * curvature, meets a line's support) and inside [windowLo, windowHi], with their ν and their width on the ν axis.
  */
 function samplesNearLines(
   raw: Float64Array,
@@ -1048,6 +1062,8 @@ function samplesNearLines(
   u0: number,
   du: number,
   c: number[],
+  windowLo = -Infinity,
+  windowHi = Infinity,
 ): { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; x: Float64Array } {
   const n = raw.length
   const cellCount = gridNu.length - 1
@@ -1087,6 +1103,7 @@ function samplesNearLines(
         d = d * u + v
         v = v * u + c[k]
       }
+      if (v < windowLo || v > windowHi) continue
       y[w] = raw[i] - darkLevelV
       x[w] = n > 1 ? (2 * i) / (n - 1) - 1 : 0
       nu[w] = v
@@ -1094,7 +1111,7 @@ function samplesNearLines(
       w++
     }
   }
-  return { y, nu, stepFsr, x }
+  return w === total ? { y, nu, stepFsr, x } : { y: y.subarray(0, w), nu: nu.subarray(0, w), stepFsr: stepFsr.subarray(0, w), x: x.subarray(0, w) }
 }
 
 /** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */
