@@ -8,6 +8,36 @@ import { z } from 'zod'
 const port = (fallback: number) =>
   z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(0, 'must be 0–65535').max(65535, 'must be 0–65535').default(fallback)
 
+/** True for a time zone name the runtime knows (IANA database, e.g. Europe/Berlin). */
+function isTimeZone(name: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: name })
+    return true
+  } catch {
+    return false
+  }
+}
+
+/** Ranges of the five cron fields: minute, hour, day of month, month, day of week (0 and 7 are Sunday). */
+const CRON_FIELDS: [number, number][] = [[0, 59], [0, 23], [1, 31], [1, 12], [0, 7]]
+
+/** True for five cron fields of numbers, `*`, ranges `a-b`, lists `a,b` and steps `/n` within each field's range. */
+function isCron(expression: string): boolean {
+  const fields = expression.split(/\s+/)
+  if (fields.length !== 5) return false
+  return fields.every((field, k) => {
+    const [min, max] = CRON_FIELDS[k]
+    const inRange = (text: string) => /^\d+$/.test(text) && Number(text) >= min && Number(text) <= max
+    return field.split(',').every((part) => {
+      const [range, step, extra] = part.split('/')
+      if (extra !== undefined || (step !== undefined && !(/^\d+$/.test(step) && Number(step) >= 1))) return false
+      if (range === '*') return true
+      const [from, to, more] = range.split('-')
+      return more === undefined && inRange(from) && (to === undefined || (inRange(to) && Number(to) >= Number(from)))
+    })
+  })
+}
+
 export const configSchema = z.object({
   /** `development`, `test` or `production`. @default development */
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
@@ -54,6 +84,17 @@ export const configSchema = z.object({
   CAVITRACE_ADMIN_EMAIL: z.email({ error: 'must be an e-mail address' }).optional(),
   /** Password of that first admin (12–256 characters); change it after the first sign-in. */
   CAVITRACE_ADMIN_PASSWORD: z.string().min(12, 'must be at least 12 characters').max(256, 'must be at most 256 characters').optional(),
+  /**
+   * When the weekly digest goes out: a cron expression of five fields (minute hour day-of-month month
+   * day-of-week), or `off`. @default 0 7 * * 1 (Mondays 07:00)
+   */
+  DIGEST_SCHEDULE: z
+    .string()
+    .trim()
+    .refine((value) => value === 'off' || isCron(value), 'must be a cron expression of five fields such as "0 7 * * 1" (minute 0–59, hour 0–23, day 1–31, month 1–12, weekday 0–7), or off')
+    .default('0 7 * * 1'),
+  /** Time zone of DIGEST_SCHEDULE, an IANA name. @default UTC */
+  DIGEST_TIMEZONE: z.string().refine(isTimeZone, 'must be an IANA time zone such as UTC or Europe/Berlin').default('UTC'),
 }).superRefine((config, context) => {
   if (config.NODE_ENV === 'production' && !config.SESSION_SECRET) {
     context.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'is required in production (at least 32 random characters)' })

@@ -28,8 +28,8 @@ export interface RunningServer {
   analysis: AnalysisService
   /** Sends the e-mail of alert notifications (polls; `drain()` sends what waits now). */
   alertMail: AlertMailDispatcher
-  /** The weekly digest job (pg-boss cron, Mondays 07:00 UTC). */
-  digest: DigestSchedule
+  /** The weekly digest job (pg-boss cron on DIGEST_SCHEDULE; null when it is off). */
+  digest: DigestSchedule | null
   /** Stop accepting connections, finish open requests, close the database pool. */
   stop(): Promise<void>
 }
@@ -50,7 +50,10 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
   const analysis = await startAnalysisService(config, { db, logger, threads: config.WORKER_THREADS })
   const app = createApp({ config, db, logger, mailer, queue: analysis.queue, events: analysis.events, sessionSecret: sessionSecretSource(config, db, logger), publicUrl: () => publicBaseUrl(config, listeningUrl) })
   const alertMail = startAlertMailDispatcher({ db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) })
-  const digest = await startDigestSchedule({ databaseUrl: config.DATABASE_URL, db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) })
+  const digest: DigestSchedule | null =
+    config.DIGEST_SCHEDULE === 'off'
+      ? null
+      : await startDigestSchedule({ databaseUrl: config.DATABASE_URL, db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) }, { cron: config.DIGEST_SCHEDULE, tz: config.DIGEST_TIMEZONE })
 
   const server = await new Promise<Server>((resolve, reject) => {
     const listening = app.listen(config.PORT, config.HOST)
@@ -59,7 +62,7 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
       reject(error.code === 'EADDRINUSE' ? new PortInUseError(config.HOST, config.PORT) : error)
     })
   }).catch(async (error: unknown) => {
-    await digest.stop()
+    await digest?.stop()
     await alertMail.stop()
     await analysis.stop()
     await capture?.stop()
@@ -95,7 +98,7 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
           // Long-lived connections (event streams) must not hold the shutdown forever.
           setTimeout(() => server.closeAllConnections(), 5000).unref()
         })
-        await digest.stop()
+        await digest?.stop()
         await alertMail.stop()
         await analysis.stop()
         await mailer.settle()

@@ -24,6 +24,17 @@ describe('loadConfig', () => {
     expect(() => loadConfig({ ...base, PORT: '70000', LOG_LEVEL: 'loud' })).toThrow(/PORT.*LOG_LEVEL|LOG_LEVEL.*PORT/)
   })
 
+  it('when the digest schedule is set then a five-field cron or off is taken and anything else is named', () => {
+    expect(loadConfig(base)).toMatchObject({ DIGEST_SCHEDULE: '0 7 * * 1', DIGEST_TIMEZONE: 'UTC' })
+    expect(loadConfig({ ...base, DIGEST_SCHEDULE: '30 6 * * 1-5', DIGEST_TIMEZONE: 'Europe/Berlin' })).toMatchObject({ DIGEST_SCHEDULE: '30 6 * * 1-5', DIGEST_TIMEZONE: 'Europe/Berlin' })
+    expect(loadConfig({ ...base, DIGEST_SCHEDULE: 'off' }).DIGEST_SCHEDULE).toBe('off')
+    expect(() => loadConfig({ ...base, DIGEST_SCHEDULE: 'every monday' })).toThrow(/DIGEST_SCHEDULE must be a cron expression of five fields/)
+    expect(() => loadConfig({ ...base, DIGEST_SCHEDULE: '0 7 * *' })).toThrow(/DIGEST_SCHEDULE/)
+    expect(() => loadConfig({ ...base, DIGEST_SCHEDULE: '0 24 * * 1' })).toThrow(/DIGEST_SCHEDULE .*hour 0–23/)
+    expect(loadConfig({ ...base, DIGEST_SCHEDULE: '*/15 6-18 1,15 * 0' }).DIGEST_SCHEDULE).toBe('*/15 6-18 1,15 * 0')
+    expect(() => loadConfig({ ...base, DIGEST_TIMEZONE: 'Mars/Olympus' })).toThrow(/DIGEST_TIMEZONE must be an IANA time zone/)
+  })
+
   it('when the server is started with a bad value then it exits non-zero naming the variable', () => {
     const result = spawnSync('node_modules/.bin/tsx', ['server/main.ts'], { env: { ...process.env, ...base, PORT: 'seventy' }, encoding: 'utf8' })
     expect(result.status).toBe(1)
