@@ -5,6 +5,7 @@ import type { Db } from '../db/knex'
 export interface LogEntryRecord {
   id: string
   cavityId: string
+  cavityName: string
   occurredAt: Date
   authorId: number | null
   authorName: string | null
@@ -18,6 +19,7 @@ export interface LogEntryRecord {
 interface EntryRow {
   id: string
   cavity_id: string
+  cavity_name: string
   occurred_at: Date
   author_id: number | null
   author_name: string | null
@@ -32,6 +34,7 @@ function toEntry(row: EntryRow): LogEntryRecord {
   return {
     id: row.id,
     cavityId: row.cavity_id,
+    cavityName: row.cavity_name,
     occurredAt: row.occurred_at,
     authorId: row.author_id,
     authorName: row.author_name,
@@ -45,9 +48,10 @@ function toEntry(row: EntryRow): LogEntryRecord {
 
 function entryQuery(db: Db) {
   return db('log_entries as e')
+    .join('cavities as c', 'c.id', 'e.cavity_id')
     .join('log_kinds as k', 'k.key', 'e.kind')
     .leftJoin('users as u', 'u.id', 'e.author_id')
-    .select('e.id', 'e.cavity_id', 'e.occurred_at', 'e.author_id', 'u.name as author_name', 'e.kind', 'k.label as kind_label', 'e.text', 'e.created_at', 'e.updated_at')
+    .select('e.id', 'e.cavity_id', 'c.name as cavity_name', 'e.occurred_at', 'e.author_id', 'u.name as author_name', 'e.kind', 'k.label as kind_label', 'e.text', 'e.created_at', 'e.updated_at')
 }
 
 export async function listKinds(db: Db): Promise<LogKind[]> {
@@ -77,8 +81,23 @@ function likePattern(text: string): string {
   return `%${text.replace(/[\\%_]/g, (char) => `\\${char}`)}%`
 }
 
-export async function listEntries(db: Db, cavityId: string, query: Partial<LogEntryQuery>): Promise<LogEntryRecord[]> {
-  const builder = entryQuery(db).where('e.cavity_id', cavityId).orderBy('e.occurred_at', 'desc').limit(query.limit ?? 200)
+/** Which cavities a list covers: one by id (archived or not), or every cavity, archived ones only when asked. */
+export type EntryScope = { cavityId: string } | { includeArchived: boolean }
+
+/**
+ * Entries newest first by when the work happened (ties: newest written first, then by id, so pages are
+ * stable), at most `limit` (default 200) in all: one query, whatever the number of cavities.
+ */
+export async function listEntries(db: Db, scope: EntryScope, query: Partial<LogEntryQuery>): Promise<LogEntryRecord[]> {
+  const builder = entryQuery(db)
+    .orderBy([
+      { column: 'e.occurred_at', order: 'desc' },
+      { column: 'e.created_at', order: 'desc' },
+      { column: 'e.id', order: 'desc' },
+    ])
+    .limit(query.limit ?? 200)
+  if ('cavityId' in scope) builder.where('e.cavity_id', scope.cavityId)
+  else if (!scope.includeArchived) builder.where('c.archived', false)
   if (query.q) builder.whereRaw('e.text ilike ?', [likePattern(query.q)])
   if (query.kind && query.kind.length > 0) builder.whereIn('e.kind', query.kind)
   if (query.from) builder.where('e.occurred_at', '>=', query.from)

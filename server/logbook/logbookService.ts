@@ -4,7 +4,7 @@
  * entry may then be changed by its author, or by anyone who manages the lab (`cavities.write`).
  */
 import { can } from '../../shared/auth/permissions'
-import type { BeforeAfter, LogEntry, LogEntryInput, LogEntryPatch, LogEntryQuery, LogKind, LogKindInput } from '../../shared/api/logbookSchemas'
+import type { BeforeAfter, LabLogEntryQuery, LogEntry, LogEntryInput, LogEntryPatch, LogEntryQuery, LogKind, LogKindInput } from '../../shared/api/logbookSchemas'
 import type { Actor } from '../auth/actor'
 import { getCavity } from '../cavities/cavityService'
 import type { Db } from '../db/knex'
@@ -71,6 +71,7 @@ async function toLogEntries(db: Db, records: LogEntryRecord[]): Promise<LogEntry
     return {
       id: record.id,
       cavityId: record.cavityId,
+      cavityName: record.cavityName,
       occurredAt: record.occurredAt.toISOString(),
       author: record.authorId === null ? null : { id: record.authorId, name: record.authorName ?? '' },
       kind: record.kind,
@@ -112,7 +113,17 @@ async function requireTracesOfCavity(db: Db, cavityId: string, traceIds: string[
 
 export async function listLogEntries(db: Db, cavityId: string, query: LogEntryQuery): Promise<LogEntry[]> {
   const cavity = await getCavity(db, cavityId)
-  return toLogEntries(db, await listEntries(db, cavity.id, query))
+  return toLogEntries(db, await listEntries(db, { cavityId: cavity.id }, query))
+}
+
+/**
+ * Entries of the whole lab in one list (one query, then the traces and figures of all of them in one
+ * batch each): every active cavity, archived ones too when asked, or the one cavity `cavityId` names.
+ */
+export async function listLabLogEntries(db: Db, query: LabLogEntryQuery): Promise<LogEntry[]> {
+  const { cavityId, archived, ...filters } = query
+  const scope = cavityId === undefined ? { includeArchived: archived } : { cavityId: (await getCavity(db, cavityId)).id }
+  return toLogEntries(db, await listEntries(db, scope, filters))
 }
 
 export async function getLogEntry(db: Db, id: string): Promise<LogEntry> {

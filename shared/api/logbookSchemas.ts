@@ -1,6 +1,6 @@
 /**
- * Payloads of the maintenance-log API (`/api/cavities/:id/log-entries`, `/api/log-entries/:id`,
- * `/api/log-kinds`), shared by server validation and client forms.
+ * Payloads of the maintenance-log API (`/api/cavities/:id/log-entries`, `/api/log-entries`,
+ * `/api/log-entries/:id`, `/api/log-kinds`), shared by server validation and client forms.
  */
 import { z } from 'zod'
 
@@ -42,6 +42,19 @@ export const logEntryQuerySchema = z.object({
   limit: z.coerce.number().int().min(1).max(1000).default(200),
 })
 export type LogEntryQuery = z.infer<typeof logEntryQuerySchema>
+
+/**
+ * Filters of the lab-wide list: those of one cavity's list, plus one cavity by id, and whether archived
+ * cavities count (as `GET /api/cavities?archived=true`; a cavity picked by id always counts).
+ */
+export const labLogEntryQuerySchema = logEntryQuerySchema.extend({
+  cavityId: z.uuid({ error: 'cavityId must be a cavity id (uuid)' }).optional(),
+  archived: z
+    .enum(['true', 'false'], { error: 'archived must be true or false' })
+    .transform((value) => value === 'true')
+    .default(false),
+})
+export type LabLogEntryQuery = z.infer<typeof labLogEntryQuerySchema>
 
 /** A new kind of entry, added by a lead or admin. */
 export const logKindInputSchema = z
@@ -85,6 +98,8 @@ export interface LogEntryTrace {
 export interface LogEntry {
   id: string
   cavityId: string
+  /** The cavity's name now (not when the entry was written). */
+  cavityName: string
   occurredAt: string
   author: { id: number; name: string } | null
   kind: string
