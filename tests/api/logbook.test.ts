@@ -200,3 +200,129 @@ describe('the maintenance log', () => {
     expect((await as(viewer).get(`/api/traces/${after.traceId}`)).status).toBe(200)
   })
 })
+
+/**
+ * The lab-wide list (`GET /api/log-entries`): every cavity's entries in one call, with the filters of a
+ * cavity's list plus `cavityId`. Order, limit and the archived rule are the route's documented contract
+ * (server/logbook/logbookRoutes.ts); the archived rule copies `GET /api/cavities`. Invented cavities and text.
+ */
+describe('the lab-wide maintenance log', () => {
+  let server: TestServer
+  let lead: TestActor
+  let viewer: TestActor
+  const cavity = { north: '', south: '', shelved: '' }
+  const names = { north: 'Lab-wide north cavity', south: 'Lab-wide south cavity', shelved: 'Lab-wide shelved cavity' }
+
+  const get = (path: string) => request(server.url).get(path).set('Authorization', viewer.authorization)
+  type Listed = { id: string; cavityId: string; cavityName: string; occurredAt: string; kind: string; text: string; traces: unknown[]; beforeAfter: unknown }
+  const list = async (query = '') => {
+    const response = await get(`/api/log-entries${query ? `?${query}` : ''}`)
+    expect(response.status, JSON.stringify(response.body)).toBe(200)
+    return response.body.entries as Listed[]
+  }
+  const texts = (entries: Listed[]) => entries.map((entry) => entry.text)
+
+  async function write(cavityId: string, occurredAt: string, kind: string, text: string): Promise<string> {
+    const created = await request(server.url).post(`/api/cavities/${cavityId}/log-entries`).set('Authorization', lead.authorization).send({ occurredAt, kind, text })
+    expect(created.status).toBe(201)
+    return created.body.entry.id as string
+  }
+
+  beforeAll(async () => {
+    server = await startTestServer()
+    lead = await createActor(server.db, 'lead')
+    viewer = await createActor(server.db, 'viewer')
+    for (const key of ['north', 'south', 'shelved'] as const) {
+      const created = await request(server.url).post('/api/cavities').set('Authorization', lead.authorization).send({ name: names[key], ...testCavityGeometry })
+      expect(created.status).toBe(201)
+      cavity[key] = created.body.cavity.id
+    }
+    await write(cavity.north, '2026-02-01T08:00:00Z', 'cleaning', 'north: wiped the input coupler')
+    await write(cavity.south, '2026-03-01T08:00:00Z', 'inspection', 'south: dust on the output mirror')
+    await write(cavity.north, '2026-04-01T08:00:00Z', 'realignment', 'north: walked the beam onto the waist')
+    await write(cavity.south, '2026-05-01T08:00:00Z', 'mirror_change', 'south: swapped the output mirror')
+    // Two entries for the same moment: the one written later comes first.
+    await write(cavity.north, '2026-06-01T08:00:00Z', 'other', 'north: same moment, written first')
+    await write(cavity.south, '2026-06-01T08:00:00Z', 'other', 'south: same moment, written second')
+    await write(cavity.shelved, '2026-04-15T08:00:00Z', 'inspection', 'shelved: last look before storage')
+    const archived = await request(server.url).patch(`/api/cavities/${cavity.shelved}`).set('Authorization', lead.authorization).send({ archived: true })
+    expect(archived.status).toBe(200)
+  })
+  afterAll(() => server?.close())
+
+  it('when the lab-wide list is read then both active cavities come back in one call, newest first, each entry naming its cavity', async () => {
+    const entries = await list()
+    expect(texts(entries)).toEqual([
+      'south: same moment, written second',
+      'north: same moment, written first',
+      'south: swapped the output mirror',
+      'north: walked the beam onto the waist',
+      'south: dust on the output mirror',
+      'north: wiped the input coupler',
+    ])
+    for (const entry of entries) {
+      const key = entry.text.startsWith('north') ? 'north' : 'south'
+      expect(entry).toMatchObject({ cavityId: cavity[key], cavityName: names[key], traces: [] })
+      expect(entry.beforeAfter).toMatchObject({ before: null, after: null })
+    }
+    // The single entry and a cavity's own list carry the name too.
+    const one = await get(`/api/log-entries/${entries[0].id}`)
+    expect(one.status).toBe(200)
+    expect(one.body.entry).toMatchObject({ id: entries[0].id, cavityName: names.south })
+    const own = await get(`/api/cavities/${cavity.north}/log-entries`)
+    expect(own.body.entries.map((entry: Listed) => entry.cavityName)).toEqual([names.north, names.north, names.north])
+  })
+
+  it('when archived cavities are asked for then their entries join the list, in date order', async () => {
+    expect(texts(await list()).some((text) => text.startsWith('shelved'))).toBe(false)
+    const withArchived = texts(await list('archived=true'))
+    expect(withArchived).toHaveLength(7)
+    expect(withArchived.indexOf('shelved: last look before storage')).toBe(withArchived.indexOf('north: walked the beam onto the waist') - 1)
+    // A cavity picked by id counts whether archived or not, as its own list does.
+    expect(texts(await list(`cavityId=${cavity.shelved}`))).toEqual(['shelved: last look before storage'])
+  })
+
+  it('when the lab-wide list is filtered by kind, text, dates, cavity and limit then only matching entries come back', async () => {
+    expect(texts(await list('kind=cleaning,mirror_change'))).toEqual(['south: swapped the output mirror', 'north: wiped the input coupler'])
+    expect(texts(await list('q=OUTPUT%20MIRROR'))).toEqual(['south: swapped the output mirror', 'south: dust on the output mirror'])
+    // from/to are inclusive bounds on when the work happened.
+    expect(texts(await list('from=2026-03-01T08:00:00Z&to=2026-04-01T08:00:00Z'))).toEqual(['north: walked the beam onto the waist', 'south: dust on the output mirror'])
+    expect(texts(await list(`cavityId=${cavity.north}`))).toEqual(['north: same moment, written first', 'north: walked the beam onto the waist', 'north: wiped the input coupler'])
+    expect(texts(await list(`cavityId=${cavity.south}&kind=inspection,other&q=mirror`))).toEqual(['south: dust on the output mirror'])
+    // The limit counts the whole list, not each cavity.
+    expect(texts(await list('limit=2'))).toEqual(['south: same moment, written second', 'north: same moment, written first'])
+    expect(await list('q=nothing%20like%20this')).toEqual([])
+  })
+
+  it('when the cavity id is unknown then the answer is the same 404 as the cavity list gives', async () => {
+    const unknown = '00000000-0000-4000-8000-000000000000'
+    const lab = await get(`/api/log-entries?cavityId=${unknown}`)
+    expect(lab.status).toBe(404)
+    expect(lab.body.error.code).toBe('cavity_not_found')
+    expect(lab.body.error.message).toContain(unknown)
+    const own = await get(`/api/cavities/${unknown}/log-entries`)
+    expect(own.status).toBe(404)
+    expect(lab.body).toEqual(own.body)
+  })
+
+  it('when the query is malformed then the answer is 400 naming the field', async () => {
+    for (const [query, field] of [
+      ['cavityId=north', 'cavityId'],
+      ['from=not-a-date', 'from'],
+      ['to=2026-13-45', 'to'],
+      ['limit=0', 'limit'],
+      ['limit=5000', 'limit'],
+      ['archived=yes', 'archived'],
+    ]) {
+      const response = await get(`/api/log-entries?${query}`)
+      expect(response.status, query).toBe(400)
+      expect(response.body.error.code, query).toBe('invalid_input')
+      expect(response.body.error.message, query).toContain(`${field}:`)
+    }
+  })
+
+  it('when nobody is signed in then the lab-wide list is refused', async () => {
+    const response = await request(server.url).get('/api/log-entries')
+    expect(response.status).toBe(401)
+  })
+})

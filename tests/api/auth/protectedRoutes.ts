@@ -148,6 +148,7 @@ export const protectedRoutes: ProtectedRouteCase[] = [
   { method: 'get', route: '/api/log-kinds', action: 'lab.read', okStatus: 200, request: at('/api/log-kinds') },
   { method: 'post', route: '/api/log-kinds', action: 'cavities.write', okStatus: 201, request: async ({ caller }) => ({ path: '/api/log-kinds', body: { label: `Walk kind ${uniqueEmail(caller.role)}` } }) },
   { method: 'get', route: '/api/cavities/:id/log-entries', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/log-entries?q=walk` }) },
+  { method: 'get', route: '/api/log-entries', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/log-entries?q=walk&cavityId=${(await tuningFixture(server)).cavityId}` }) },
   {
     method: 'post',
     route: '/api/cavities/:id/log-entries',
