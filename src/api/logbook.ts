@@ -1,6 +1,6 @@
 /**
- * Typed calls for the maintenance log: kinds of entry, a cavity's entries with search and filters, one
- * entry, writing and deleting entries, and uploading new traces into an entry (multipart).
+ * Typed calls for the maintenance log: kinds of entry, a cavity's or the whole lab's entries with search
+ * and filters, one entry, writing and deleting entries, and uploading new traces into an entry (multipart).
  */
 import type { BeforeAfter, LogEntry, LogEntryTrace, LogFigures, LogKind } from '../../shared/api/logbookSchemas'
 import type { UploadOutcome } from '../../shared/api/tuningTypes'
@@ -10,7 +10,7 @@ export type { BeforeAfter, LogEntry, LogEntryTrace, LogFigures, LogKind }
 
 const enc = encodeURIComponent
 
-/** Filters of `GET /api/cavities/:id/log-entries`; dates are ISO 8601, `kinds` are kind keys. */
+/** Filters of `GET /api/cavities/:id/log-entries` and `GET /api/log-entries`; dates are ISO 8601, `kinds` are kind keys. */
 export interface LogEntryFilter {
   q?: string
   kinds?: string[]
@@ -35,15 +35,33 @@ export function addLogKind(label: string): Promise<{ kind: LogKind }> {
   return apiRequest('/log-kinds', { method: 'POST', body: { label } })
 }
 
-export function listLogEntries(cavityId: string, filter: LogEntryFilter = {}, signal?: AbortSignal): Promise<{ cavityId: string; entries: LogEntry[] }> {
+/** What the lab-wide list adds: one cavity by id, and whether archived cavities count. */
+export interface LabLogEntryFilter extends LogEntryFilter {
+  cavityId?: string
+  archived?: boolean
+}
+
+function filterSearch(filter: LabLogEntryFilter): string {
   const params = new URLSearchParams()
   if (filter.q?.trim()) params.set('q', filter.q.trim())
   if (filter.kinds?.length) params.set('kind', filter.kinds.join(','))
   if (filter.from) params.set('from', filter.from)
   if (filter.to) params.set('to', filter.to)
   if (filter.limit !== undefined) params.set('limit', String(filter.limit))
+  if (filter.cavityId) params.set('cavityId', filter.cavityId)
+  if (filter.archived) params.set('archived', 'true')
   const search = params.toString()
-  return apiRequest(`/cavities/${enc(cavityId)}/log-entries${search ? `?${search}` : ''}`, { signal })
+  return search ? `?${search}` : ''
+}
+
+export function listLogEntries(cavityId: string, filter: LogEntryFilter = {}, signal?: AbortSignal): Promise<{ cavityId: string; entries: LogEntry[] }> {
+  const { q, kinds, from, to, limit } = filter
+  return apiRequest(`/cavities/${enc(cavityId)}/log-entries${filterSearch({ q, kinds, from, to, limit })}`, { signal })
+}
+
+/** The whole lab's entries in one request, newest first; `limit` counts the whole list, not per cavity. */
+export function listLabLogEntries(filter: LabLogEntryFilter = {}, signal?: AbortSignal): Promise<{ entries: LogEntry[] }> {
+  return apiRequest(`/log-entries${filterSearch(filter)}`, { signal })
 }
 
 export function getLogEntry(id: string, signal?: AbortSignal): Promise<{ entry: LogEntry }> {

@@ -1,26 +1,27 @@
 /**
- * Maintenance-log entries of one or several cavities with the same filters, merged newest first (the API
- * lists one cavity at a time), and writing entries: create (with linked and uploaded traces), edit, delete.
+ * Maintenance-log entries of one cavity, or of the whole lab in one request (`GET /api/log-entries`),
+ * with filters, and writing entries: create (with linked and uploaded traces), edit, delete.
  */
 import { computed, shallowRef, toValue, type MaybeRefOrGetter } from 'vue'
-import { createLogEntry, deleteLogEntry, editLogEntry, listLogEntries, uploadEntryTraces, type LogEntry, type LogEntryDraft, type LogEntryFilter } from '../api/logbook'
+import { createLogEntry, deleteLogEntry, editLogEntry, listLabLogEntries, listLogEntries, uploadEntryTraces, type LogEntry, type LogEntryDraft, type LogEntryFilter } from '../api/logbook'
 import type { ApiError } from '../api/client'
 import { runAction, useCavitraceLoader } from './useCavitraceLoader'
 
-/** Entries of several lists in one, newest first by when the work happened (ties: newest written first). */
+/** Entries of several lists in one, newest first by when the work happened (ties: newest written first), as the API orders one list. */
 export function mergeLogEntries(lists: readonly (readonly LogEntry[])[]): LogEntry[] {
   return lists.flat().sort((a, b) => Date.parse(b.occurredAt) - Date.parse(a.occurredAt) || Date.parse(b.createdAt) - Date.parse(a.createdAt))
 }
 
-export function useLogEntries(cavityIds: MaybeRefOrGetter<readonly string[]>, filter: MaybeRefOrGetter<LogEntryFilter> = {}) {
-  const key = computed(() => {
-    const ids = toValue(cavityIds)
-    return ids.length ? JSON.stringify({ ids, filter: toValue(filter) }) : null
-  })
+/**
+ * The entries of cavity `cavityId`, or of every active cavity of the lab when it is null (one request
+ * either way); `filter.limit` then counts the whole list.
+ */
+export function useLogEntries(cavityId: MaybeRefOrGetter<string | null>, filter: MaybeRefOrGetter<LogEntryFilter> = {}) {
+  const key = computed(() => JSON.stringify({ cavityId: toValue(cavityId) || null, filter: toValue(filter) }))
   const resource = useCavitraceLoader<LogEntry[]>(key, async (composite, signal) => {
-    const { ids, filter: current } = JSON.parse(composite) as { ids: string[]; filter: LogEntryFilter }
-    const answers = await Promise.all(ids.map((id) => listLogEntries(id, current, signal)))
-    return mergeLogEntries(answers.map((answer) => answer.entries))
+    const { cavityId: id, filter: current } = JSON.parse(composite) as { cavityId: string | null; filter: LogEntryFilter }
+    const answer = id === null ? await listLabLogEntries(current, signal) : await listLogEntries(id, current, signal)
+    return answer.entries
   })
   /** Whether a write is in flight. */
   const saving = shallowRef(false)

@@ -114,9 +114,18 @@ describe('the maintenance log as the demo technician', () => {
 
   it('when the logbook is searched for the entry’s words then only that entry is listed', async () => {
     const { page } = browser
+    // All cavities come from one lab-wide request, not one request per cavity.
+    const listRequests: string[] = []
+    const onRequest = (sent: { url(): string }) => {
+      const path = new URL(sent.url()).pathname
+      if (path === '/api/log-entries' || /^\/api\/cavities\/[^/]+\/log-entries$/.test(path)) listRequests.push(path)
+    }
+    page.on('request', onRequest)
     await page.goto(`${server.url}/logbook`)
     await page.getByTestId('log-list').getByTestId('log-entry').first().waitFor()
     expect(await page.getByTestId('log-list').getByTestId('log-entry').count()).toBe(4) // three seeded + ours
+    page.off('request', onRequest)
+    expect(listRequests).toEqual(['/api/log-entries'])
     await page.getByTestId('log-search').fill('dust alarm')
     await page.waitForFunction(() => document.querySelectorAll('[data-testid="log-list"] [data-testid="log-entry"]').length === 1)
     expect(await page.getByTestId('log-list').innerText()).toContain('REF-1064 reference cavity')
