@@ -7,11 +7,6 @@ import { createLogEntry, deleteLogEntry, editLogEntry, listLabLogEntries, listLo
 import type { ApiError } from '../api/client'
 import { runAction, useCavitraceLoader } from './useCavitraceLoader'
 
-/** Entries of several lists in one, newest first by when the work happened (ties: newest written first), as the API orders one list. */
-export function mergeLogEntries(lists: readonly (readonly LogEntry[])[]): LogEntry[] {
-  return lists.flat().sort((a, b) => Date.parse(b.occurredAt) - Date.parse(a.occurredAt) || Date.parse(b.createdAt) - Date.parse(a.createdAt))
-}
-
 /**
  * The entries of cavity `cavityId`, or of every active cavity of the lab when it is null (one request
  * either way); `filter.limit` then counts the whole list.

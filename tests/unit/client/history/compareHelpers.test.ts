@@ -5,10 +5,8 @@
  */
 import { describe, expect, it } from 'vitest'
 import type { AnalysisResult } from '../../../../shared/analysis/types'
-import type { LogEntry } from '../../../../shared/api/logbookSchemas'
 import type { Trace } from '../../../../shared/trace/types'
 import { fsrOverlay } from '../../../../src/components/history/fsrOverlay'
-import { mergeLogEntries } from '../../../../src/composables/useLogEntries'
 
 type OverlayResult = Pick<AnalysisResult, 'peaks' | 'sweep' | 'noise' | 'channels'>
 
@@ -65,16 +63,5 @@ describe('fsrOverlay', () => {
     const result = tinyResult('up')
     result.peaks = result.peaks.slice(0, 2)
     expect(fsrOverlay(tinyTrace(), result)).toBeNull()
-  })
-})
-
-describe('mergeLogEntries', () => {
-  const entry = (id: string, occurredAt: string, createdAt = occurredAt) => ({ id, occurredAt, createdAt }) as LogEntry
-  it('when two cavities each list their entries then one list comes out, newest work first', () => {
-    const merged = mergeLogEntries([
-      [entry('a2', '2026-11-20T00:00:00Z'), entry('a1', '2026-11-01T00:00:00Z')],
-      [entry('b1', '2026-11-10T00:00:00Z'), entry('b0', '2026-11-20T00:00:00Z', '2026-11-21T00:00:00Z')],
-    ])
-    expect(merged.map((e) => e.id)).toEqual(['b0', 'a2', 'b1', 'a1'])
   })
 })
