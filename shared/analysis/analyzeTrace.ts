@@ -1,4 +1,4 @@
-import { computeCavityModel, transverseOffsetFsr, type CavityGeometry } from '../cavity'
+import { computeCavityModel, transverseOffsetFsr, type CavityGeometry, type CavityModel } from '../cavity'
 import { EngineError, type EngineWarning } from '../errors'
 import type { Trace } from '../trace/types'
 import { selectSweep } from '../sweep/selectSweep'
@@ -18,7 +18,7 @@ import { ladderReading } from '../orders/isTransverseLadder'
 import { assignOrders, type OrderAssignment, type OrderLabel } from '../orders/assignOrders'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
-import { collectWarnings } from './collectWarnings'
+import { collectWarnings, SWEEP_SPEED_RINGING } from './collectWarnings'
 import type { AnalysisPeak, AnalysisResult, AnalyzeOptions, OrderEstimate } from './types'
 
 /** Highest transverse order the assignment considers. */
@@ -180,6 +180,11 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     )
   }
   const positions = measured.map((m) => (calibration ? frequencyAt(calibration, tOf(m)) : NaN))
+  const sweepSpeed = sweepSpeedOf(calibration, model, finesse?.value ?? null)
+  // A fast sweep rings: its ring-down lobes are folded into their resonances (left out of the list of peaks).
+  const lobes = sweepSpeed && sweepSpeed.speed >= SWEEP_SPEED_RINGING ? ringLobes(measured, labels, tOf, sweepSpeed.decaySeconds) : new Map<number, number>()
+  const lobeArea = new Map<number, number>()
+  for (const [lobe, owner] of lobes) lobeArea.set(owner, (lobeArea.get(owner) ?? 0) + measured[lobe].areaVSamples)
 
   // 8. Power per order: every order measured at its predicted place over whole FSR periods.
   const fastStructure = comb.members.some((k) => measured[k].lobeCount >= 3)
@@ -210,7 +215,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     finesse = { value: shares.finesse, error: finesse.error }
   }
 
-  const peaks: AnalysisPeak[] = measured.map((m, i) => {
+  const peaks: AnalysisPeak[] = measured.flatMap((m, i) => {
+    if (lobes.has(i)) return []
     const l = labels[i]
     return {
       t: tOf(m),
@@ -219,7 +225,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       height: m.heightV,
       heightError: Number.isFinite(m.heightErrorV) ? m.heightErrorV : null,
       fwhmSeconds: m.fwhmSamples * dt,
-      area: m.areaVSamples * dt,
+      area: (m.areaVSamples + (lobeArea.get(i) ?? 0)) * dt,
       share: l.kind === 'carrier' && l.order !== null ? shares.shareOfPeak(l.order, positions[i]) : 0,
       positionFsr: Number.isFinite(positions[i]) ? orientedFraction(positions[i], direction) : null,
       fitted: m.fitted,
@@ -249,11 +255,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       model,
       orders,
       orderResidualRmsFsr: orderResidual,
+      sweepSpeed: sweepSpeed?.speed ?? null,
     }),
   ]
   const misalignmentShare = orders['1'] ?? 0
   const mismatchShare = orders['2'] ?? 0
-  const chi = measured.filter((m) => m.fitted && Number.isFinite(m.reducedChiSquare)).map((m) => m.reducedChiSquare)
+  const chi = measured.filter((m, i) => !lobes.has(i) && m.fitted && Number.isFinite(m.reducedChiSquare)).map((m) => m.reducedChiSquare)
   const fsrHz = model.fsrHz
   const combTimes = comb.members.map((k) => tOf(measured[k]))
   return {
@@ -299,7 +306,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     fitQuality: {
       medianReducedChiSquare: chi.length ? median(chi) : null,
       fittedCount: chi.length,
-      peakCount: measured.length,
+      peakCount: peaks.length,
       orderResidualRmsFsr: orderResidual,
       lineModelReducedChiSquare: shares.reducedChiSquare,
     },
@@ -1112,6 +1119,40 @@ function samplesNearLines(
     }
   }
   return w === total ? { y, nu, stepFsr, x } : { y: y.subarray(0, w), nu: nu.subarray(0, w), stepFsr: stepFsr.subarray(0, w), x: x.subarray(0, w) }
+}
+
+/**
+ * Sweep speed s = r / (π δν²) (see SWEEP_SPEED_RINGING) and the field decay time τ = 1/(π δν): r from the FSR in
+ * Hz over the median TEM00 spacing in seconds, δν the narrower of the measured and the design linewidth (ringing
+ * widens the measured one).
+ */
+function sweepSpeedOf(calibration: SweepCalibration | null, model: CavityModel, measuredFinesse: number | null): { speed: number; decaySeconds: number } | null {
+  if (!calibration || !(calibration.fsrSeconds > 0)) return null
+  const finesses = [measuredFinesse, model.designFinesse].filter((f): f is number => f !== null && f > 0)
+  if (finesses.length === 0) return null
+  const linewidthHz = model.fsrHz / Math.max(...finesses)
+  return { speed: model.fsrHz / calibration.fsrSeconds / (Math.PI * linewidthHz * linewidthHz), decaySeconds: 1 / (Math.PI * linewidthHz) }
+}
+
+/**
+ * Ring-down lobes: after a fast crossing the transmitted light beats for a few decay times (Poirson et al.,
+ * J. Opt. Soc. Am. B 14, 2811 (1997)), and a beat can stand out as a resonance of its own. A resonance that
+ * follows a taller one of the same order and kind within four decay times (intensity e⁻⁸ of the start) is such
+ * a lobe: one order cannot resonate twice so close.
+ */
+function ringLobes(measured: MeasuredResonance[], labels: OrderLabel[], tOf: (m: MeasuredResonance) => number, decaySeconds: number): Map<number, number> {
+  const lobes = new Map<number, number>()
+  const order = measured.map((_, i) => i).sort((a, b) => tOf(measured[a]) - tOf(measured[b]))
+  for (let a = 0; a < order.length; a++) {
+    const i = order[a]
+    if (lobes.has(i) || labels[i].kind === 'unassigned') continue
+    for (let b = a + 1; b < order.length; b++) {
+      const j = order[b]
+      if (tOf(measured[j]) - tOf(measured[i]) > 4 * decaySeconds) break
+      if (labels[j].kind === labels[i].kind && labels[j].order === labels[i].order && measured[j].heightV < measured[i].heightV) lobes.set(j, i)
+    }
+  }
+  return lobes
 }
 
 /** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */

@@ -20,7 +20,21 @@ export interface WarningInputs {
   orders: Record<string, number>
   /** RMS distance of the matched carriers from their predicted places, FSR units (null without a calibration). */
   orderResidualRmsFsr: number | null
+  /**
+   * Sweep speed s = r / (π δν²): the optical sweep rate r (Hz/s) against the square of the linewidth δν (Hz), from
+   * the narrower of the measured and the design linewidth; null without a calibration. See SWEEP_SPEED_RINGING.
+   */
+  sweepSpeed: number | null
 }
+
+/**
+ * Sweep speed above which a resonance rings and broadens. With τ = 1/(π δν) the field's decay time, s = π r τ² is
+ * the frequency swept in one decay time over the linewidth / π; a steady-state Lorentzian needs s ≪ 1, and
+ * ring-down beats appear from s ≈ 0.1–1 (Poirson et al., J. Opt. Soc. Am. B 14, 2811 (1997)). Ringing broadens
+ * the apparent linewidth δν' roughly as √(r/π) once strong, so the s read from δν' saturates near 0.4–0.5:
+ * the threshold sits below that (from this project's generator, which integrates the intracavity field).
+ */
+export const SWEEP_SPEED_RINGING = 0.15
 
 /** Highest order checked for degeneracy warnings (higher ones rarely carry power worth a warning). */
 const DEGENERACY_MAX_ORDER = 6
@@ -53,7 +67,14 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
   const degenerate = degeneracy(input)
   if (degenerate) w.push({ code: 'degenerate_orders', message: degenerate })
   const lobed = fundamentals.filter((k) => measured[k].lobeCount >= 3)
-  if (lobed.length > 0) {
+  const fast = input.sweepSpeed !== null && input.sweepSpeed >= SWEEP_SPEED_RINGING
+  if (fast) {
+    w.push({
+      code: 'ringing',
+      message: `The sweep is too fast for the linewidth: it crosses a linewidth in about ${(1 / input.sweepSpeed!).toFixed(1)} field decay times (sweep speed ${input.sweepSpeed!.toFixed(2)}; below about 0.1 the cavity follows the sweep). The light rings after each resonance and the resonances look wider: the measured linewidth is too wide and the finesse too low (a lower bound). The order shares stay sound, since every order rings alike. Sweep more slowly to measure the linewidth.`,
+    })
+  }
+  if (lobed.length > 0 && !fast) {
     const trailing = lobed.filter((k) => leadingLobeIsTallest(input.signal, measured[k]))
     if (trailing.length * 2 >= lobed.length) {
       w.push({
