@@ -188,11 +188,14 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
 
   // 8. Power per order: every order measured at its predicted place over whole FSR periods.
   const fastStructure = comb.members.some((k) => measured[k].lobeCount >= 3)
+  const ordersMeasured = measuredOrders(families.leaders, labels)
   let shares = calibration && finesse
     ? measureOrderShares({
         signal, raw: part, darkLevelV, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
-        orders: measuredOrders(families.leaders, labels),
+        orders: ordersMeasured,
+        // Splits of up to 8 linewidths (at most 0.01 FSR) between neighbouring lines of an order are looked for.
+        splitReachFsr: (Math.min(8 / finesse.value, 0.01) * Math.max(...ordersMeasured)) / 2,
         detected: measured
           .map((m, i) => ({ nu: positions[i], order: labels[i].kind === 'carrier' ? labels[i].order : null, heightV: m.heightV }))
           .filter((d): d is { nu: number; order: number; heightV: number } => d.order !== null && Number.isFinite(d.nu)),
@@ -234,6 +237,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
 
   const warnings: EngineWarning[] = [
     ...trace.warnings,
+    ...(shares.splitFsr > 0
+      ? [{
+          code: 'split_orders',
+          message: `The transverse orders are split: order N shows up to N + 1 lines about ${fmt(shares.splitFsr * (finesse?.value ?? 0))} linewidths (${fmt(shares.splitFsr)} FSR) apart, as astigmatism makes the Gouy phase differ between the two transverse axes (tilted or off-axis mirrors). Each line is measured and the order's power is their sum.`,
+        }]
+      : []),
     ...(comb.ladderPossible
       ? [{
           code: 'comb_or_ladder',
@@ -278,6 +287,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     orders,
     belowNoiseShare: shares.belowNoiseShare,
     orderEstimates: shares.orderEstimates,
+    orderSplitFsr: shares.splitFsr,
     misalignmentShare,
     mismatchShare,
     reading: calibration
@@ -620,6 +630,8 @@ interface ShareInputs {
   startSeconds: number
   dtSeconds: number
   preferHeight: boolean
+  /** Look for orders split by astigmatism (see splitLines): the sample windows widen by this much, FSR. @default 0 (no search) */
+  splitReachFsr?: number
 }
 
 interface Shares {
@@ -635,6 +647,8 @@ interface Shares {
   belowNoiseShare: number
   /** Every order measured by the line model, reported or not (empty when shares come from the peaks found). */
   orderEstimates: OrderEstimate[]
+  /** Astigmatic split between neighbouring lines of an order, FSR (0 when none is seen or none was looked for). */
+  splitFsr: number
 }
 
 /** χ² per degree of freedom above which the line model is not trusted for heights. */
@@ -677,6 +691,7 @@ function peakAreaShares(
     finesse: null,
     belowNoiseShare: 0,
     orderEstimates: [],
+    splitFsr: 0,
     shareOfPeak: (order, positionFsr) => {
       const i = positions.indexOf(positionFsr)
       return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
@@ -690,6 +705,10 @@ const SUPPORT_LINEWIDTHS = 50
 /** The predicted lines of every order over the sweep, and the samples they reach (all, and every k-th for searches). */
 interface LineProblem {
   lines: PredictedLine[]
+  /** Each line's predicted place before it was moved to a resonance found there (FSR units). */
+  predictedNu: number[]
+  /** Half-width of the sample windows about each line, FSR units (support plus the split reach). */
+  windowFsr: number
   all: { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; background: { x: Float64Array; degree: number } }
   coarse: { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; background: { x: Float64Array; degree: number } }
 }
@@ -712,6 +731,7 @@ function lineProblem(input: ShareInputs): LineProblem {
   }
   const sign = direction === 'up' ? 1 : -1
   const lines: PredictedLine[] = []
+  const predictedNu: number[] = []
   const epsilon = 1e-6
   const sidebandReach = input.sidebands && input.sidebands.ratio > 0 ? input.sidebands.offsetFsr : 0
   const support = Math.min(0.5, SUPPORT_LINEWIDTHS / finesse) + sidebandReach
@@ -739,13 +759,16 @@ function lineProblem(input: ShareInputs): LineProblem {
         }
       }
       lines.push({ nu: placed, order, counted })
+      predictedNu.push(at)
     }
   }
   const centres = Float64Array.from(lines, (l) => l.nu).sort()
+  // Room for split orders (see splitLines): the samples stay the same whatever split is tried.
+  const windowFsr = support + (input.splitReachFsr ?? 0)
   // The line model sees the record less its dark level, not the drift-following baseline: block levels also
   // carry the wings of the resonances in each block, which would bend the lines. Slow drift is a quadratic
   // background fitted with the lines instead.
-  const { y, nu, stepFsr, x } = samplesNearLines(input.raw, input.darkLevelV, cell, gridNu, centres, support, u0, du, c, lo, hi)
+  const { y, nu, stepFsr, x } = samplesNearLines(input.raw, input.darkLevelV, cell, gridNu, centres, windowFsr, u0, du, c, lo, hi)
   // Searches run on every k-th sample (about 8 per linewidth pin a width; on long windows down to 4 per
   // linewidth, keeping it near 15,000 samples); the final fit uses all.
   const stride = Math.max(1, Math.floor(input.samplesPerLinewidth / 8), Math.min(Math.floor(input.samplesPerLinewidth / 4), Math.ceil(y.length / 8_000)))
@@ -757,6 +780,8 @@ function lineProblem(input: ShareInputs): LineProblem {
   }
   return {
     lines,
+    predictedNu,
+    windowFsr,
     all: { y, nu, stepFsr, background: { x, degree: 2 } },
     coarse: { y: every(y), nu: every(nu), stepFsr: every(stepFsr), background: { x: every(x), degree: 2 } },
   }
@@ -773,6 +798,91 @@ function orderHeightSums(lines: PredictedLine[], fit: OrderPowerFit, order: numb
     for (let l = 0; l < m; l++) if (lines[l].counted && lines[l].order === order) heightVariance += fit.covariance[j * m + l]
   }
   return { heightSum, heightVariance }
+}
+
+/**
+ * Astigmatism gives the two transverse axes different Gouy phases ψx, ψy, so HG_mn resonates at
+ * (m + ½)ψx/π + (n + ½)ψy/π: order N = m + n splits into N + 1 lines at (m − n)·Δ/2 about its mean place,
+ * Δ = (ψx − ψy)/π (Siegman, "Lasers" (1986), ch. 20). Each line gets its own height (the beam decides how the
+ * order's power divides between HG_mn), and the order's power is their sum. Orders keep their predicted places
+ * (a resonance found nearby may be one of the split lines).
+ */
+function splitLines(lines: PredictedLine[], predictedNu: number[], splitFsr: number): PredictedLine[] {
+  return lines.flatMap((line, j) => {
+    if (line.order === 0 || !(splitFsr > 0)) return [line]
+    return Array.from({ length: line.order + 1 }, (_, k) => ({ ...line, nu: predictedNu[j] + (k - line.order / 2) * splitFsr }))
+  })
+}
+
+/**
+ * Whether the line model fits the samples about the transverse lines worse than those about the TEM00 lines:
+ * χ²ᵥ near orders ≥ 1 above χ²ᵥ near TEM00 by more than four standard deviations √(2/ν) of the former
+ * (Bevington & Robinson, "Data Reduction and Error Analysis", §11.1). Shape changes that every order shares
+ * (ringing, detector low-pass, a misjudged noise level) raise both; a split order raises only the first.
+ */
+function transverseMisfit(
+  on: { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; background: { x: Float64Array; degree: number } },
+  lines: PredictedLine[],
+  fit: (subset: { y: Float64Array; nu: Float64Array; stepFsr: Float64Array; background: { x: Float64Array; degree: number } }) => OrderPowerFit,
+  nearFsr: number,
+): boolean {
+  const sorted = lines.slice().sort((a, b) => a.nu - b.nu)
+  const pick = (transverse: boolean) => {
+    const keep: number[] = []
+    let j = 0
+    for (let i = 0; i < on.nu.length; i++) {
+      const v = on.nu[i]
+      while (j + 1 < sorted.length && Math.abs(sorted[j + 1].nu - v) <= Math.abs(sorted[j].nu - v)) j++
+      const nearest = sorted[j]
+      if (nearest && Math.abs(nearest.nu - v) <= nearFsr && (nearest.order > 0) === transverse) keep.push(i)
+    }
+    const take = (a: Float64Array) => Float64Array.from(keep, (i) => a[i])
+    return { count: keep.length, subset: { y: take(on.y), nu: take(on.nu), stepFsr: take(on.stepFsr), background: { x: take(on.background.x), degree: on.background.degree } } }
+  }
+  const transverse = pick(true)
+  const fundamental = pick(false)
+  if (transverse.count < 50 || fundamental.count < 50) return false
+  const chiTransverse = fit(transverse.subset).reducedChiSquare
+  const chiFundamental = fit(fundamental.subset).reducedChiSquare
+  return chiTransverse > chiFundamental + 4 * Math.sqrt(2 / transverse.count)
+}
+
+/** Splits tried, in linewidths, from half a linewidth (below it the lines blur into one) to the reach allowed. */
+const SPLIT_GRID_LINEWIDTHS = [0.5, 1, 2, 4, 8]
+
+/**
+ * The astigmatic split Δ (FSR) that the data support, or 0: χ² of the line model on a grid of splits, kept only
+ * when it beats the unsplit model by more than the Bayesian information criterion's price of the extra heights,
+ * k·ln n (Schwarz, Ann. Statist. 6, 461 (1978)), then refined by golden section on a log scale.
+ */
+function searchSplit(
+  problem: LineProblem,
+  input: ShareInputs,
+  chiSquareOf: (lines: PredictedLine[]) => { chiSquare: number; parameters: number },
+  finesse: number,
+): number {
+  const maxOrder = Math.max(...input.orders)
+  if (!(maxOrder >= 1)) return 0
+  const limit = (2 * (input.splitReachFsr ?? 0)) / maxOrder
+  const n = problem.coarse.y.length
+  const unsplit = chiSquareOf(problem.lines)
+  const score = (splitFsr: number) => {
+    const trial = chiSquareOf(splitLines(problem.lines, problem.predictedNu, splitFsr))
+    return trial.chiSquare + (trial.parameters - unsplit.parameters) * Math.log(n)
+  }
+  let best = 0
+  let bestScore = unsplit.chiSquare
+  for (const linewidths of SPLIT_GRID_LINEWIDTHS) {
+    const splitFsr = linewidths / finesse
+    if (splitFsr > limit) break
+    const trial = score(splitFsr)
+    if (trial < bestScore) {
+      best = splitFsr
+      bestScore = trial
+    }
+  }
+  if (best === 0) return 0
+  return goldenSectionMinimum(score, Math.max(0.5 / finesse, best / 2), Math.min(limit, best * 2), 8)
 }
 
 /** Difference of the transverse evidence (Σ z² over orders ≥ 1) that settles a direction: about 3σ (common practice). */
@@ -847,8 +957,11 @@ function directionByLineModel<O extends { assignment: OrderAssignment; calibrati
 
 function measureOrderShares(input: ShareInputs): Shares {
   const { finesse } = input
-  const { lines, all, coarse } = lineProblem(input)
-  const { y } = all
+  // Without a sign of split orders the windows need no room for them (see the split search below).
+  const narrow = lineProblem({ ...input, splitReachFsr: 0 })
+  let { all, coarse } = narrow
+  let lines = narrow.lines
+  let reachFsr = 0
   // The shared linewidth is refined with the heights: every line of every order, their sidebands and the wings
   // of their neighbours share one Airy width on the calibrated axis, so the finesse comes from all of them and
   // not from TEM00 fits that see the neighbours' wings as baseline. The samples stay the same at every trial
@@ -861,7 +974,8 @@ function measureOrderShares(input: ShareInputs): Shares {
       finesse: f,
       sidebands,
       sigmaV: input.sigmaV,
-      supportLinewidths: (SUPPORT_LINEWIDTHS * f) / finesse,
+      // Every sample of the windows is modelled, whatever the split: the residuals then compare across splits.
+      supportLinewidths: (SUPPORT_LINEWIDTHS / finesse + 2 * reachFsr) * f,
       stepFsr: on.stepFsr,
       background: on.background,
       residualOnly,
@@ -876,6 +990,28 @@ function measureOrderShares(input: ShareInputs): Shares {
       fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, finesse, 0.85 * finesse, 1.18 * finesse)
     }
   }
+  // Split orders leave the unsplit model short of the data about the transverse lines only (see
+  // transverseMisfit). Only then are splits tried, on windows widened to hold them.
+  let splitFsr = 0
+  if (input.splitReachFsr && input.splitReachFsr > 0 && transverseMisfit(coarse, lines, (on) => fitWith(fittedFinesse, sidebands, on, true), Math.min(8 / fittedFinesse, 0.1))) {
+    const wide = lineProblem(input)
+    const previous = { all, coarse, lines, reachFsr }
+    ;({ all, coarse } = wide)
+    reachFsr = input.splitReachFsr
+    const found = searchSplit(wide, input, (candidate) => {
+      lines = candidate
+      const fit = fitWith(fittedFinesse, sidebands)
+      return { chiSquare: fit.reducedChiSquare * (coarse.y.length - candidate.length - 3), parameters: candidate.length }
+    }, fittedFinesse)
+    if (found > 0) {
+      splitFsr = found
+      lines = splitLines(wide.lines, wide.predictedNu, found)
+      fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, fittedFinesse, 0.85 * finesse, 1.18 * finesse)
+    } else {
+      ;({ all, coarse, lines, reachFsr } = previous)
+    }
+  }
+  const { y } = all
   if (coarse.y.length < y.length) {
     // The coarse samples place the minimum to about a percent; one parabola through all samples at ±1.5 %
     // takes the rest of the information (every sample counts for the width).
@@ -957,6 +1093,7 @@ function measureOrderShares(input: ShareInputs): Shares {
     orders,
     fundamentalFraction,
     fundamentalFractionError: Number.isFinite(fundamentalError) ? fundamentalError : null,
+    splitFsr,
     belowNoiseShare: belowNoise,
     orderEstimates: orderEstimates.map((e) => ({ ...e, shareError: Number.isFinite(e.shareError) ? e.shareError : null, significance: e.significance !== null && Number.isFinite(e.significance) ? e.significance : null })),
     measure: useHeight ? 'height' : 'area',
@@ -1180,6 +1317,7 @@ function fundamentalOnlyShares(measured: MeasuredResonance[], members: number[])
     finesse: null,
     belowNoiseShare: 0,
     orderEstimates: [],
+    splitFsr: 0,
     shareOfPeak: (order) => (order === 0 && members.length > 0 ? fraction / members.length : 0),
   }
 }

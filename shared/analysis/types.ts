@@ -62,6 +62,11 @@ export const analysisResultSchema = z.object({
   belowNoiseShare: z.number().optional(),
   /** Every order measured at its predicted places, with its error; empty when shares come from the peaks found. Absent in older results. */
   orderEstimates: z.array(orderEstimateSchema).optional(),
+  /**
+   * Astigmatic split between neighbouring lines of one order, FSR units: order N shows up to N + 1 lines this far
+   * apart (0 when none is seen). Absent in older results.
+   */
+  orderSplitFsr: z.number().optional(),
   misalignmentShare: z.number(),
   mismatchShare: z.number(),
   reading: z.string(),

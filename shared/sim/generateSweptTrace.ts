@@ -256,7 +256,8 @@ function buildFamilies(
     const base = transverseOffsetFsr(order, gouyOneWayRad)
     const parts = splitFsr > 0 && order > 0 ? order + 1 : 1
     for (let part = 0; part < parts; part++) {
-      const spread = parts > 1 ? splitFsr * (part / (parts - 1) - 0.5) : 0
+      // HG_mn with m − n = 2·part − N sits (m − n)·Δ/2 from the order's mean place.
+      const spread = parts > 1 ? splitFsr * (part - order / 2) : 0
       const power = share / parts
       const carrier: ModeFamily = { order, kind: 'carrier', offsetFsr: base + spread, heightV: voltsPerShare * power, power }
       families.push(carrier)

@@ -61,7 +61,11 @@ export interface SweptTraceOptions {
   modulationMHz?: number
   /** Power in each first-order sideband relative to its carrier. @default 0 (0.05 when modulationMHz is given) */
   sidebandPowerFraction?: number
-  /** Order N splits into N + 1 sub-peaks spread evenly over this width in FSR units (astigmatic split). @default 0 */
+  /**
+   * Astigmatic split Δ = (ψx − ψy)/π in FSR units: order N = m + n splits into N + 1 lines HG_mn at (m − n)·Δ/2
+   * about its mean place, so N·Δ apart end to end (Siegman, "Lasers" (1986), ch. 20); the order's power is shared
+   * equally among them. @default 0
+   */
   astigmatismSplitFsr?: number
   /** Integrate the intracavity field through the sweep (ring-down oscillation after fast crossings). @default false */
   ringing?: boolean

@@ -41,13 +41,17 @@ describe('generateSweptTrace sidebands, split orders and dither', () => {
     expect(() => generateSweptTrace({ ...clean, modulationMHz: 20 })).toThrow(/modulationMHz needs the FSR in Hz/)
   })
 
-  it('when orders are split then order N shows N + 1 sub-peaks spread over the split width, sharing its power', () => {
+  it('when orders are split then order N shows N + 1 sub-peaks Δ apart (N·Δ end to end), sharing its power', () => {
     const { truth } = generateSweptTrace({ ...clean, orderPowers: [0.6, 0.1, 0.3], astigmatismSplitFsr: 0.02 })
     const t0 = truth.peaks.find((p) => p.order === 0)!.t
-    const second = truth.peaks.filter((p) => p.order === 2 && p.t > t0 && p.t < t0 + truth.fsrSeconds)
+    const within = (order: number) => truth.peaks.filter((p) => p.order === order && p.t > t0 && p.t < t0 + truth.fsrSeconds)
+    const first = within(1)
+    const second = within(2)
+    expect(first).toHaveLength(2)
     expect(second).toHaveLength(3)
-    const spread = (second[2].t - second[0].t) / truth.fsrSeconds
-    expect(spread).toBeCloseTo(0.02, 9)
+    // HG_mn at (m − n)·Δ/2 about the order's mean place (Siegman, "Lasers" (1986), ch. 20).
+    expect((first[1].t - first[0].t) / truth.fsrSeconds).toBeCloseTo(0.02, 9)
+    expect((second[2].t - second[0].t) / truth.fsrSeconds).toBeCloseTo(0.04, 9)
     // Centred on 2ψ/π mod 1 (Kogelnik & Li, Appl. Opt. 5, 1550 (1966)).
     expect((second[1].t - t0) / truth.fsrSeconds).toBeCloseTo((2 * 0.9) / Math.PI, 9)
     expect(second.reduce((sum, p) => sum + p.power, 0)).toBeCloseTo(0.3, 12)
