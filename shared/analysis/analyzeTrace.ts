@@ -187,7 +187,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   for (const [lobe, owner] of lobes) lobeArea.set(owner, (lobeArea.get(owner) ?? 0) + measured[lobe].areaVSamples)
 
   // 8. Power per order: every order measured at its predicted place over whole FSR periods.
-  const fastStructure = comb.members.some((k) => measured[k].lobeCount >= 3)
+  const fastStructure = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3)
   const ordersMeasured = measuredOrders(families.leaders, labels)
   let shares = calibration && finesse
     ? measureOrderShares({
@@ -265,6 +265,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       orders,
       orderResidualRmsFsr: orderResidual,
       sweepSpeed: sweepSpeed?.speed ?? null,
+      spikeTrains: tall.spikeTrains === true,
     }),
   ]
   const misalignmentShare = orders['1'] ?? 0
@@ -507,7 +508,54 @@ interface TallResonance {
  * on the raw samples: enough for the TEM00 comb and its width, whatever the sampling (a slope shallower than the
  * noise cannot stop a walk to half height, unlike a walk to the valleys).
  */
-function tallResonances(signal: Float64Array, sigmaV: number): TallResonance[] {
+/**
+ * A laser-frequency dither of about a linewidth or more, faster than the sweep crosses a linewidth, breaks each
+ * resonance into a train of spikes, one or two per dither period, which the search finds one by one. Such trains
+ * show as gaps of two sizes: short ones inside a train, long ones between resonances. When the sorted gaps jump
+ * by 4× or more and the groups below the jump hold four or more spikes each (a carrier with two sidebands makes
+ * three), each group is one resonance: its centre the height-weighted mean, its width its extent. Null when the
+ * tall resonances are no such trains.
+ */
+function mergeSpikeTrains(tall: TallResonance[]): TallResonance[] | null {
+  if (tall.length < 8) return null
+  const gaps = tall.slice(1).map((t, k) => t.centerIndex - tall[k].centerIndex)
+  const sorted = gaps.slice().sort((a, b) => a - b)
+  let jump = 0
+  let at = -1
+  for (let k = 2; k + 1 < sorted.length; k++) {
+    const ratio = sorted[k + 1] / Math.max(sorted[k], 1e-9)
+    if (ratio > jump) {
+      jump = ratio
+      at = k
+    }
+  }
+  if (jump < 4 || at < 0) return null
+  const limit = Math.sqrt(sorted[at] * sorted[at + 1])
+  const groups: TallResonance[][] = [[tall[0]]]
+  for (let k = 1; k < tall.length; k++) {
+    if (gaps[k - 1] < limit) groups[groups.length - 1].push(tall[k])
+    else groups.push([tall[k]])
+  }
+  const sizes = groups.map((g) => g.length).sort((a, b) => a - b)
+  if (sizes[sizes.length >> 1] < 4) return null
+  return groups.map((g) => {
+    const weight = g.reduce((sum, t) => sum + t.heightV, 0)
+    const width = median(g.map((t) => t.fwhmSamples))
+    return {
+      centerIndex: g.reduce((sum, t) => sum + t.heightV * t.centerIndex, 0) / weight,
+      heightV: Math.max(...g.map((t) => t.heightV)),
+      fwhmSamples: g[g.length - 1].centerIndex - g[0].centerIndex + width,
+    }
+  })
+}
+
+function tallResonances(signal: Float64Array, sigmaV: number): TallResonance[] & { spikeTrains?: boolean } {
+  const found = singleTallResonances(signal, sigmaV)
+  const merged = mergeSpikeTrains(found)
+  return merged ? Object.assign(merged, { spikeTrains: true }) : found
+}
+
+function singleTallResonances(signal: Float64Array, sigmaV: number): TallResonance[] {
   let top = 0
   for (let i = 0; i < signal.length; i++) if (signal[i] > top) top = signal[i]
   const threshold = Math.max(Math.max(5, Math.sqrt(2 * Math.log(Math.max(signal.length, 2))) + 1), (0.2 * top) / sigmaV)

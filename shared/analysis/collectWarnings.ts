@@ -25,6 +25,8 @@ export interface WarningInputs {
    * the narrower of the measured and the design linewidth; null without a calibration. See SWEEP_SPEED_RINGING.
    */
   sweepSpeed: number | null
+  /** True when the tall resonances came as trains of spikes, merged into one resonance each (a fast dither). */
+  spikeTrains: boolean
 }
 
 /**
@@ -74,7 +76,12 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
       message: `The sweep is too fast for the linewidth: it crosses a linewidth in about ${(1 / input.sweepSpeed!).toFixed(1)} field decay times (sweep speed ${input.sweepSpeed!.toFixed(2)}; below about 0.1 the cavity follows the sweep). The light rings after each resonance and the resonances look wider: the measured linewidth is too wide and the finesse too low (a lower bound). The order shares stay sound, since every order rings alike. Sweep more slowly to measure the linewidth.`,
     })
   }
-  if (lobed.length > 0 && !fast) {
+  if (input.spikeTrains && !fast) {
+    w.push({
+      code: 'fast_structure',
+      message: 'Each resonance comes as a train of spikes (a laser-frequency dither of about a linewidth or more, faster than the sweep): the spikes of each train are taken as one resonance and measured by their integrated power. The fraction is rough (a few points) and the linewidth too wide; switch the dither off or make it smaller than the linewidth.',
+    })
+  } else if (lobed.length > 0 && !fast) {
     const trailing = lobed.filter((k) => leadingLobeIsTallest(input.signal, measured[k]))
     if (trailing.length * 2 >= lobed.length) {
       w.push({
