@@ -240,7 +240,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     ...(shares.splitFsr > 0
       ? [{
           code: 'split_orders',
-          message: `The transverse orders are split: order N shows up to N + 1 lines about ${fmt(shares.splitFsr * (finesse?.value ?? 0))} linewidths (${fmt(shares.splitFsr)} FSR) apart, as astigmatism makes the Gouy phase differ between the two transverse axes (tilted or off-axis mirrors). Each line is measured and the order's power is their sum.`,
+          message: `The transverse orders are split: order N shows up to N + 1 lines about ${fmt(shares.splitFsr * (finesse?.value ?? 0))} linewidths (${shares.splitFsr.toPrecision(2)} FSR) apart, as astigmatism makes the Gouy phase differ between the two transverse axes (tilted or off-axis mirrors). Each line is measured and the order's power is their sum.`,
         }]
       : []),
     ...(comb.ladderPossible

@@ -101,4 +101,20 @@ describe('history, comparison and report as the demo experimenter', () => {
       await page.setViewportSize({ width: 1280, height: 800 })
     }
   })
+
+  it('when an analysis of the astigmatic demo cavity is opened then the split orders are named beside the Gouy phase', async () => {
+    // The demo enhancement cavity is generated with orders split by astigmatism (db/seeds/seedDemoLab.ts).
+    const row = (await server
+      .db('analyses as a')
+      .join('cavities as c', 'c.id', 'a.cavity_id')
+      .where({ 'c.name': 'SHG-532 enhancement cavity', 'a.status': 'done' })
+      .orderBy('a.created_at', 'desc')
+      .first('a.id')) as { id: string }
+    const { page } = browser
+    await page.goto(`${server.url}/analyses/${row.id}`)
+    await page.getByTestId('analysis-figures').waitFor()
+    expect(await page.getByTestId('order-split').innerText()).toMatch(/orders split by [\d.]+\sMHz \(astigmatism\)/)
+    expect(await page.getByText(/The transverse orders are split/).count()).toBe(1)
+    expect(statSync(await browser.screenshot('analysis-split')).size).toBeGreaterThan(30_000)
+  })
 })
