@@ -44,6 +44,20 @@ interface ChildReport {
   fileMb: number
 }
 
+/** One read + analyse of the export, timed in wall and CPU time. */
+function readAndAnalyse(bytes: Uint8Array): Run {
+  const cpu = (a: NodeJS.CpuUsage, b: NodeJS.CpuUsage) => (b.user - a.user + b.system - a.system) / 1000
+  const c0 = process.cpuUsage()
+  const t0 = performance.now()
+  const trace = readTrace(bytes)
+  const t1 = performance.now()
+  const c1 = process.cpuUsage()
+  analyzeTrace(trace, preset.cavity!)
+  const t2 = performance.now()
+  const c2 = process.cpuUsage()
+  return { readMs: t1 - t0, analyseMs: t2 - t1, readCpuMs: cpu(c0, c1), analyseCpuMs: cpu(c1, c2) }
+}
+
 /** Runs in the fresh process: the file is loaded first (and the engine warmed up when asked), then read + analysed. */
 function measureHere(file: string, warm: boolean): void {
   setFlagsFromString('--expose-gc')
@@ -73,35 +87,14 @@ function measureHere(file: string, warm: boolean): void {
   const runs: Run[] = []
   let peakGrowth = 0
   for (let run = 0; run < (warm ? RUNS : 1); run++) {
-    const c0 = process.cpuUsage()
-    const t0 = performance.now()
-    const trace = readTrace(bytes)
-    const t1 = performance.now()
-    const c1 = process.cpuUsage()
-    analyzeTrace(trace, preset.cavity!)
-    const t2 = performance.now()
-    const c2 = process.cpuUsage()
+    runs.push(readAndAnalyse(bytes))
     // The first run's high-water mark holds everything (later runs reuse freed memory).
     if (run === 0) peakGrowth = Math.max(0, peakRss(reset) - rssBefore)
-    const cpu = (a: NodeJS.CpuUsage, b: NodeJS.CpuUsage) => (b.user - a.user + b.system - a.system) / 1000
-    runs.push({ readMs: t1 - t0, analyseMs: t2 - t1, readCpuMs: cpu(c0, c1), analyseCpuMs: cpu(c1, c2) })
     gc()
   }
   // Steady state: the same again without a forced full collection between runs, as a busy worker runs. (A forced
   // full collection leaves the next run to rebuild the young generation, which costs the analysis 10–15 ms.)
-  const steady: Run[] = []
-  for (let run = 0; run < (warm ? RUNS : 0); run++) {
-    const c0 = process.cpuUsage()
-    const t0 = performance.now()
-    const trace = readTrace(bytes)
-    const t1 = performance.now()
-    const c1 = process.cpuUsage()
-    analyzeTrace(trace, preset.cavity!)
-    const t2 = performance.now()
-    const c2 = process.cpuUsage()
-    const cpu = (a: NodeJS.CpuUsage, b: NodeJS.CpuUsage) => (b.user - a.user + b.system - a.system) / 1000
-    steady.push({ readMs: t1 - t0, analyseMs: t2 - t1, readCpuMs: cpu(c0, c1), analyseCpuMs: cpu(c1, c2) })
-  }
+  const steady = warm ? Array.from({ length: RUNS }, () => readAndAnalyse(bytes)) : []
   const report: ChildReport = { runs, steady, peakGrowthMb: peakGrowth / 2 ** 20, fileMb: bytes.length / 2 ** 20 }
   process.stdout.write(JSON.stringify(report))
 }
