@@ -1017,8 +1017,8 @@ function measureOrderShares(input: ShareInputs): Shares {
   // Sideband power is refined too, in turn with the width (coordinate descent): sidebands closer than a few
   // linewidths blur into the carrier and trade off with the width; farther ones lie outside the TEM00 fits.
   // The search runs on the coarse samples; the final fit uses all.
-  const fitWith = (f: number, sidebands: ShareInputs['sidebands'], on = coarse, residualOnly = on === coarse) =>
-    fitOrderPowers(on.y, on.nu, lines, {
+  const fitWith = (f: number, sidebands: ShareInputs['sidebands'], on = coarse, residualOnly = on === coarse, modelLines = lines) =>
+    fitOrderPowers(on.y, on.nu, modelLines, {
       finesse: f,
       sidebands,
       sigmaV: input.sigmaV,
@@ -1043,12 +1043,11 @@ function measureOrderShares(input: ShareInputs): Shares {
   let splitFsr = 0
   if (input.splitReachFsr && input.splitReachFsr > 0 && transverseMisfit(coarse, lines, (on) => fitWith(fittedFinesse, sidebands, on, true), Math.min(8 / fittedFinesse, 0.1))) {
     const wide = lineProblem(input)
-    const previous = { all, coarse, lines, reachFsr }
+    const previous = { all, coarse, reachFsr }
     ;({ all, coarse } = wide)
     reachFsr = input.splitReachFsr
     const found = searchSplit(wide, input, (candidate) => {
-      lines = candidate
-      const fit = fitWith(fittedFinesse, sidebands)
+      const fit = fitWith(fittedFinesse, sidebands, coarse, true, candidate)
       return { chiSquare: fit.reducedChiSquare * (coarse.y.length - candidate.length - 3), parameters: candidate.length }
     }, fittedFinesse)
     if (found > 0) {
@@ -1056,7 +1055,7 @@ function measureOrderShares(input: ShareInputs): Shares {
       lines = splitLines(wide.lines, wide.predictedNu, found)
       fittedFinesse = parabolicMinimum((f) => fitWith(f, sidebands).reducedChiSquare, fittedFinesse, 0.85 * finesse, 1.18 * finesse)
     } else {
-      ;({ all, coarse, lines, reachFsr } = previous)
+      ;({ all, coarse, reachFsr } = previous)
     }
   }
   const { y } = all
