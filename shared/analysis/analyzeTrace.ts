@@ -14,7 +14,7 @@ import { fitOrderPowers, type OrderPowerFit, type PredictedLine } from '../order
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { findFundamentals, type FundamentalComb } from '../orders/findFundamentals'
-import { ladderReading } from '../orders/isTransverseLadder'
+import { ladderReading } from '../orders/ladderReading'
 import { assignOrders, type OrderAssignment, type OrderLabel } from '../orders/assignOrders'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'

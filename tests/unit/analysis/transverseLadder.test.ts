@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { analyzeTrace } from '../../../shared/analysis/analyzeTrace'
 import type { CavityGeometry } from '../../../shared/cavity'
-import { isTransverseLadder, ladderReading } from '../../../shared/orders/isTransverseLadder'
+import { ladderReading } from '../../../shared/orders/ladderReading'
 import { generateSweptTrace } from '../../../shared/sim/generateSweptTrace'
 import { traceFromSim } from './traceFromSim'
 
@@ -35,7 +35,7 @@ describe('one TEM00 followed by its transverse ladder', () => {
       { center: 4000, height: 0.85 },
       { center: 7000, height: 0.95 },
     ]
-    expect(isTransverseLadder(peaks, { members: [0, 2, 3], fsrIndex: [0, 1, 2] }, 0.2952 * Math.PI, 8000)).toBe(false)
+    expect(ladderReading(peaks, { members: [0, 2, 3], fsrIndex: [0, 1, 2] }, 0.2952 * Math.PI, 8000)).toBe('comb')
   })
 
   it('when heights fall by large factors at the ladder spacing and no second TEM00 fits in the sweep then it is a ladder', () => {
@@ -46,9 +46,9 @@ describe('one TEM00 followed by its transverse ladder', () => {
       { center: 5000, height: 0.14 },
     ]
     // Ladder FSR = 2000 / 0.2952 ≈ 6775 samples: the next TEM00 would sit past the end of an 7000-sample sweep.
-    expect(isTransverseLadder(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 7000)).toBe(true)
+    expect(ladderReading(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 7000)).toBe('ladder')
     // In a longer sweep the ladder's second TEM00 would be visible: keep the comb reading.
-    expect(isTransverseLadder(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 20000)).toBe(false)
+    expect(ladderReading(peaks, { members: [0, 1, 2], fsrIndex: [0, 1, 2] }, gouy, 20000)).toBe('comb')
   })
 
   it('when only two tall resonances are seen and nothing else tells the readings apart then they stay a TEM00 comb', () => {
@@ -59,7 +59,6 @@ describe('one TEM00 followed by its transverse ladder', () => {
       { center: 1000, height: 1 },
       { center: 3000, height: 0.5 },
     ]
-    expect(isTransverseLadder(peaks, { members: [0, 1], fsrIndex: [0, 1] }, gouy, 7000)).toBe(false)
     expect(ladderReading(peaks, { members: [0, 1], fsrIndex: [0, 1] }, gouy, 7000)).toBe('either')
   })
 

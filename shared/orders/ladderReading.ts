@@ -1,7 +1,7 @@
 import { transverseOffsetFsr } from '../cavity'
 import type { FundamentalComb, PeakPosition } from './findFundamentals'
 
-export interface IsTransverseLadderOptions {
+export interface LadderReadingOptions {
   /** Transverse orders that may be seen (degenerate families' lowest members). @default [0, 1, 2, 3] */
   allowedOrders?: number[]
   /** Each comb member must be at most this fraction of the one before it (from the tallest end). @default 0.6 */
@@ -11,33 +11,20 @@ export interface IsTransverseLadderOptions {
 }
 
 /**
- * Whether a candidate TEM00 comb is better read as ONE TEM00 followed by its transverse orders 1, 2, …: orders N sit
+ * How a candidate TEM00 comb is best read: as a comb, or as ONE TEM00 followed by its transverse orders 1, 2, … (a
+ * ladder), or 'either' when a comb of two and nothing else fits both equally. Orders N sit
  * at N·ψ/π FSR (mod 1) (Siegman, "Lasers" (1986), ch. 19), so consecutive orders are equally spaced, by ψ/π FSR
  * or (the other sweep direction) 1 − ψ/π FSR, and a ladder of them mimics a comb. The ladder reading is chosen when
  * the members fall in height by a large factor at every step from the tallest end, no second TEM00 of the ladder's
  * FSR would fall inside the sweep, and the ladder places the resonances at least as well as the comb does (and,
  * for a comb of two, places some resonance besides them).
  */
-export function isTransverseLadder(
-  peaks: PeakPosition[],
-  comb: FundamentalComb,
-  gouyOneWayRad: number,
-  sweepLengthSamples: number,
-  options: IsTransverseLadderOptions = {},
-): boolean {
-  return ladderReading(peaks, comb, gouyOneWayRad, sweepLengthSamples, options) === 'ladder'
-}
-
-/**
- * The same test with its third outcome: 'either' when a comb of two and nothing else fits both readings equally
- * (the comb is then kept, and the result should say the other reading was possible).
- */
 export function ladderReading(
   peaks: PeakPosition[],
   comb: FundamentalComb,
   gouyOneWayRad: number,
   sweepLengthSamples: number,
-  options: IsTransverseLadderOptions = {},
+  options: LadderReadingOptions = {},
 ): 'comb' | 'ladder' | 'either' {
   const { allowedOrders = [0, 1, 2, 3], maxStepRatio = 0.6 } = options
   const n = comb.members.length
