@@ -1075,14 +1075,11 @@ function measureOrderShares(input: ShareInputs): Shares {
   // and the summed areas with their own errors (areas of separate windows taken as independent, common practice).
   const sums = new Map<number, { value: number; variance: number; heightSum: number; heightVariance: number }>()
   for (const order of input.orders) {
-    let heightSum = 0
-    let heightVariance = 0
+    const { heightSum, heightVariance } = orderHeightSums(lines, fit, order)
     let areaSum = 0
     let areaVariance = 0
     for (let j = 0; j < m; j++) {
       if (!lines[j].counted || lines[j].order !== order) continue
-      heightSum += fit.lines[j].heightV
-      for (let l = 0; l < m; l++) if (lines[l].counted && lines[l].order === order) heightVariance += fit.covariance[j * m + l]
       areaSum += fit.lines[j].areaHeightV
       areaVariance += fit.lines[j].areaHeightErrorV ** 2
     }
