@@ -12,6 +12,7 @@ import { calibrateWithOrders } from '../calibration/calibrateWithOrders'
 import { orderFamilies } from '../orders/orderFamilies'
 import { fitOrderPowers, type OrderPowerFit, type PredictedLine } from '../orders/fitOrderPowers'
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
+import { fitRingdown } from '../peaks/fitRingdown'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { findFundamentals, type FundamentalComb } from '../orders/findFundamentals'
 import { ladderReading } from '../orders/ladderReading'
@@ -217,6 +218,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   if (finesse && shares.finesse !== null && shares.reducedChiSquare !== null && shares.reducedChiSquare <= MAX_LINE_CHI_SQUARE) {
     finesse = { value: shares.finesse, error: finesse.error }
   }
+  // A ringing sweep widens every line: the finesse then comes from the ring-down of the TEM00 resonances.
+  const apparentFinesse = finesse?.value ?? null
+  const ringdown = calibration && finesse && sweepSpeed && sweepSpeed.speed >= SWEEP_SPEED_RINGING
+    ? finesseFromRingdown({ signal, measured, members: comb.members, lobes, calibration, tOf, startSeconds: timeAt(sweep.startIndex), dt, sigmaV, fsrHz: model.fsrHz, apparentFinesse: finesse.value })
+    : null
+  if (ringdown) finesse = ringdown
 
   const peaks: AnalysisPeak[] = measured.flatMap((m, i) => {
     if (lobes.has(i)) return []
@@ -265,6 +272,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       orders,
       orderResidualRmsFsr: orderResidual,
       sweepSpeed: sweepSpeed?.speed ?? null,
+      ringdownFinesse: ringdown && apparentFinesse !== null ? { value: ringdown.value, apparent: apparentFinesse } : null,
       spikeTrains: tall.spikeTrains === true,
     }),
   ]
@@ -1313,6 +1321,61 @@ function sweepSpeedOf(calibration: SweepCalibration | null, model: CavityModel, 
   if (finesses.length === 0) return null
   const linewidthHz = model.fsrHz / Math.max(...finesses)
   return { speed: model.fsrHz / calibration.fsrSeconds / (Math.PI * linewidthHz * linewidthHz), decaySeconds: 1 / (Math.PI * linewidthHz) }
+}
+
+/** TEM00 resonances fitted for their ring-down, at most (the median of a few is enough). */
+const RINGDOWN_FITS = 5
+
+/**
+ * The finesse from the ring-down of the TEM00 resonances (fitRingdown with the sweep rate of the calibration):
+ * 𝓕 = π·τ·FSR, since δν = 1/(πτ). Each fit spans 20 apparent linewidths before the resonance and 20 linewidths
+ * plus 15 decay times after it, stopping half-way to any other resonance found. The median of the converged fits,
+ * with the spread of their values (or, for fewer than three, the larger fit error) as the error; null when none
+ * converges.
+ */
+function finesseFromRingdown(input: {
+  signal: Float64Array
+  measured: MeasuredResonance[]
+  members: number[]
+  lobes: Map<number, number>
+  calibration: SweepCalibration
+  tOf: (m: MeasuredResonance) => number
+  startSeconds: number
+  dt: number
+  sigmaV: number
+  fsrHz: number
+  apparentFinesse: number
+}): { value: number; error: number | null } | null {
+  const { signal, measured, calibration, tOf, dt, fsrHz } = input
+  const others = measured.map((m, i) => ({ t: tOf(m), i })).filter(({ i }) => !input.lobes.has(i)).sort((a, b) => a.t - b.t)
+  const tallest = input.members.slice().sort((a, b) => measured[b].heightV - measured[a].heightV).slice(0, RINGDOWN_FITS)
+  const values: { finesse: number; error: number }[] = []
+  for (const k of tallest) {
+    const center = tOf(measured[k])
+    const rateHzPerSecond = Math.abs(sweepRateAt(calibration, center)) * fsrHz
+    if (!(rateHzPerSecond > 0)) continue
+    const apparentLinewidthSeconds = fsrHz / input.apparentFinesse / rateHzPerSecond
+    // The ringing widens the line: the true decay time is longer than the apparent linewidth says.
+    const decayGuess = 2 / (Math.PI * (fsrHz / input.apparentFinesse))
+    let from = center - 20 * apparentLinewidthSeconds
+    let to = center + 20 * apparentLinewidthSeconds + 15 * decayGuess
+    for (const o of others) {
+      if (o.i === k) continue
+      if (o.t < center) from = Math.max(from, (o.t + center) / 2)
+      else to = Math.min(to, (o.t + center) / 2)
+    }
+    const a = Math.max(0, Math.ceil((from - input.startSeconds) / dt))
+    const b = Math.min(signal.length, Math.floor((to - input.startSeconds) / dt))
+    if (b - a < 20) continue
+    const t = Float64Array.from({ length: b - a }, (_, j) => input.startSeconds + (a + j) * dt)
+    const fit = fitRingdown(t, signal.subarray(a, b), { rateHzPerSecond, guess: { centerSeconds: center, heightV: measured[k].heightV, decaySeconds: decayGuess }, sigmaV: input.sigmaV })
+    if (!fit || !(fit.reducedChiSquare <= MAX_MODEL_CHI_SQUARE)) continue
+    values.push({ finesse: Math.PI * fit.decaySeconds * fsrHz, error: Math.PI * fit.decayErrorSeconds * fsrHz })
+  }
+  if (values.length === 0) return null
+  const value = median(values.map((v) => v.finesse))
+  const error = values.length > 2 ? (1.4826 * median(values.map((v) => Math.abs(v.finesse - value)))) / Math.sqrt(values.length) : Math.max(...values.map((v) => v.error))
+  return { value, error: Number.isFinite(error) ? error : null }
 }
 
 /**

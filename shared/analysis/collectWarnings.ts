@@ -25,6 +25,8 @@ export interface WarningInputs {
    * the narrower of the measured and the design linewidth; null without a calibration. See SWEEP_SPEED_RINGING.
    */
   sweepSpeed: number | null
+  /** The finesse measured from the ring-down and the one the widened lines would give, when the sweep rings. */
+  ringdownFinesse: { value: number; apparent: number } | null
   /** True when the tall resonances came as trains of spikes, merged into one resonance each (a fast dither). */
   spikeTrains: boolean
 }
@@ -71,9 +73,13 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
   const lobed = fundamentals.filter((k) => measured[k].lobeCount >= 3)
   const fast = input.sweepSpeed !== null && input.sweepSpeed >= SWEEP_SPEED_RINGING
   if (fast) {
+    // With the ring-down finesse the speed follows from the true linewidth: s ∝ 1/δν² ∝ 𝓕².
+    const speed = input.ringdownFinesse ? input.sweepSpeed! * (input.ringdownFinesse.value / input.ringdownFinesse.apparent) ** 2 : input.sweepSpeed!
     w.push({
       code: 'ringing',
-      message: `The sweep is too fast for the linewidth: it crosses a linewidth in about ${(1 / input.sweepSpeed!).toFixed(1)} field decay times (sweep speed ${input.sweepSpeed!.toFixed(2)}; below about 0.1 the cavity follows the sweep). The light rings after each resonance and the resonances look wider: the measured linewidth is too wide and the finesse too low (a lower bound). The order shares stay sound, since every order rings alike. Sweep more slowly to measure the linewidth.`,
+      message: input.ringdownFinesse
+        ? `The sweep is too fast for the linewidth: it crosses a linewidth in about ${(1 / speed).toFixed(1)} field decay times (sweep speed ${speed.toFixed(2)}; below about 0.1 the cavity follows the sweep). The light rings after each resonance and the resonances look wider, so the finesse (${input.ringdownFinesse.value.toFixed(0)}) comes from fitting the ring-down of the TEM00 resonances; their widths alone would say ${input.ringdownFinesse.apparent.toFixed(0)}. The order shares stay sound, since every order rings alike.`
+        : `The sweep is too fast for the linewidth: it crosses a linewidth in about ${(1 / speed).toFixed(1)} field decay times (sweep speed ${speed.toFixed(2)}; below about 0.1 the cavity follows the sweep). The light rings after each resonance and the resonances look wider: the measured linewidth is too wide and the finesse too low (a lower bound). The order shares stay sound, since every order rings alike. Sweep more slowly to measure the linewidth.`,
     })
   }
   if (input.spikeTrains && !fast) {
