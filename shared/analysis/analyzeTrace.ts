@@ -883,13 +883,26 @@ function transverseMisfit(
   nearFsr: number,
 ): boolean {
   const sorted = lines.slice().sort((a, b) => a.nu - b.nu)
+  // The nearest line by bisection (ν may rise or fall along the samples).
+  const nearestTo = (v: number): PredictedLine | undefined => {
+    let lo = 0
+    let hi = sorted.length
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1
+      if (sorted[mid].nu < v) lo = mid + 1
+      else hi = mid
+    }
+    const above = sorted[lo]
+    const below = sorted[lo - 1]
+    if (!above) return below
+    if (!below) return above
+    return v - below.nu <= above.nu - v ? below : above
+  }
   const pick = (transverse: boolean) => {
     const keep: number[] = []
-    let j = 0
     for (let i = 0; i < on.nu.length; i++) {
       const v = on.nu[i]
-      while (j + 1 < sorted.length && Math.abs(sorted[j + 1].nu - v) <= Math.abs(sorted[j].nu - v)) j++
-      const nearest = sorted[j]
+      const nearest = nearestTo(v)
       if (nearest && Math.abs(nearest.nu - v) <= nearFsr && (nearest.order > 0) === transverse) keep.push(i)
     }
     const take = (a: Float64Array) => Float64Array.from(keep, (i) => a[i])

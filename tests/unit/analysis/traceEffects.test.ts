@@ -100,11 +100,16 @@ describe('traces with ringing, low-pass, dither, drift and split orders', () => 
     expect(fractionError(result, sim)).toBeLessThan(0.005)
   })
 
-  it.each([1, 2, 5])('when astigmatism splits the orders by %s linewidth(s) then the split is measured and the fraction holds', (linewidths) => {
+  it.each([
+    [1, 'up'],
+    [2, 'up'],
+    [5, 'up'],
+    [2, 'down'],
+  ] as const)('when astigmatism splits the orders by %s linewidth(s), sweeping %s, then the split is measured and the fraction holds', (linewidths, direction) => {
     // HG_mn at (m − n)·Δ/2 about each order's place (Siegman, "Lasers" (1986), ch. 20). Measured as one line per
     // order, splits of 1, 2 and 5 linewidths put the fraction 5.1, 8.7 and 10.8 points high.
     const splitFsr = linewidths / finesse
-    const { result, sim } = analyse({ astigmatismSplitFsr: splitFsr })
+    const { result, sim } = analyse({ astigmatismSplitFsr: splitFsr, direction })
     expect(codes(result)).toContain('split_orders')
     expect(Math.abs(result.orderSplitFsr! / splitFsr - 1)).toBeLessThan(0.1)
     expect(fractionError(result, sim)).toBeLessThan(0.01)
