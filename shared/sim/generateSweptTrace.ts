@@ -12,6 +12,8 @@ const RAMP_HIGH_V = 5
 const RAMP_NOISE_V = 0.002
 /** Quantisation full scale reaches this fraction of the signal's span beyond its extremes. */
 const FULL_SCALE_MARGIN = 0.02
+/** Default decay time of the detector ringing, in periods of the ringing. */
+const DEFAULT_RING_DECAY_PERIODS = 1.5
 
 /** One family of resonances (an order, one of its split sub-peaks, or a sideband of either). */
 interface ModeFamily {
@@ -27,7 +29,8 @@ interface ModeFamily {
  * above TEM00 (Kogelnik & Li, Appl. Opt. 5, 1550 (1966); Siegman, "Lasers" (1986), ch. 19) and transmits an
  * Airy function 1/(1 + (2𝓕/π)² sin²(πx)) of the detuning x in FSR units (Born & Wolf, "Principles of Optics", §7.6),
  * whose area per FSR, 1/√(1 + (2𝓕/π)²), is the same for every order: peak heights scale with order powers.
- * Then: slow drift, detector single-pole low-pass, white Gaussian noise, quantisation.
+ * Then: slow drift, detector single-pole low-pass, detector ringing (an under-damped second-order response of unit
+ * DC gain, `detectorRingHz` and `detectorRingDecaySeconds`), white Gaussian noise, quantisation.
  */
 export function generateSweptTrace(options: SweptTraceOptions): SweptTrace {
   const {
@@ -48,6 +51,8 @@ export function generateSweptTrace(options: SweptTraceOptions): SweptTrace {
     darkOffsetV = 0.01,
     driftFraction = 0,
     lowPassTauSeconds = 0,
+    detectorRingHz = 0,
+    detectorRingDecaySeconds = DEFAULT_RING_DECAY_PERIODS / detectorRingHz,
     modulationMHz,
     sidebandPowerFraction = modulationMHz === undefined ? 0 : 0.05,
     astigmatismSplitFsr = 0,
@@ -129,6 +134,7 @@ export function generateSweptTrace(options: SweptTraceOptions): SweptTrace {
   const transmissionV = opticalV
   if (driftFraction > 0) applyDrift(transmissionV, driftFraction, driftPhase)
   if (lowPassTauSeconds > 0) applyLowPass(transmissionV, sampleIntervalSeconds / lowPassTauSeconds)
+  if (detectorRingHz > 0) applyDetectorRinging(transmissionV, sampleIntervalSeconds, detectorRingHz, detectorRingDecaySeconds)
   for (let i = 0; i < sampleCount; i++) transmissionV[i] += darkOffsetV
   addGaussianNoise(transmissionV, noiseFraction * peakHeightV, random)
   if (rampV) addGaussianNoise(rampV, RAMP_NOISE_V, random)
@@ -227,6 +233,42 @@ function applyDrift(values: Float64Array, driftFraction: number, phase: number):
 function applyLowPass(values: Float64Array, samplesPerTau: number): void {
   const alpha = 1 - Math.exp(-samplesPerTau)
   for (let i = 1; i < values.length; i++) values[i] = values[i - 1] + alpha * (values[i] - values[i - 1])
+}
+
+/**
+ * Under-damped second-order low-pass of unit DC gain, ÿ + 2σẏ + ω0²y = ω0²u (Ogata, "Modern Control Engineering",
+ * ch. 5): impulse response (ω0²/ω_d)·e^(−σt)·sin(ω_d t) with ω_d = 2πf_r, σ = 1/τ, ω0² = ω_d² + σ² (damping ζ = σ/ω0).
+ * Exact for an input linear between samples: the forced solution for u = u0 + m·t is y = u − m·2σ/ω0², ẏ = m, and the
+ * deviation from it evolves freely by the transition matrix Φ = e^(AT). A constant input is a fixed point, so the
+ * DC gain is exactly 1 and peak areas are kept. Starts at rest on the first sample.
+ */
+function applyDetectorRinging(values: Float64Array, sampleIntervalSeconds: number, ringHz: number, decaySeconds: number): void {
+  const omegaD = 2 * Math.PI * ringHz
+  const sigma = 1 / decaySeconds
+  const omega0Squared = omegaD * omegaD + sigma * sigma
+  const lagSeconds = (2 * sigma) / omega0Squared
+  // Φ for the state (y, ẏ) over one sample interval.
+  const decay = Math.exp(-sigma * sampleIntervalSeconds)
+  const c = Math.cos(omegaD * sampleIntervalSeconds)
+  const s = Math.sin(omegaD * sampleIntervalSeconds)
+  const phiYY = decay * (c + (sigma / omegaD) * s)
+  const phiYV = (decay * s) / omegaD
+  const phiVY = (-decay * omega0Squared * s) / omegaD
+  const phiVV = decay * (c - (sigma / omegaD) * s)
+  let y = values[0]
+  let v = 0
+  let previousInput = values[0]
+  for (let i = 1; i < values.length; i++) {
+    const input = values[i]
+    const slope = (input - previousInput) / sampleIntervalSeconds
+    // Deviation from the forced solution at the start of the interval, carried across it by Φ.
+    const dy = y - (previousInput - slope * lagSeconds)
+    const dv = v - slope
+    y = input - slope * lagSeconds + phiYY * dy + phiYV * dv
+    v = slope + phiVY * dy + phiVV * dv
+    previousInput = input
+    values[i] = y
+  }
 }
 
 /** Adds white Gaussian noise of rms `sigma` (Box–Muller pairs, Box & Muller, Ann. Math. Stat. 29, 610 (1958)). */
@@ -351,6 +393,7 @@ function assertOptions(options: SweptTraceOptions): void {
     ['darkOffsetV', -1e6, 1e6],
     ['driftFraction', 0, 0.9],
     ['lowPassTauSeconds', 0, 1e3],
+    ['detectorRingHz', 0, 1e15],
     ['modulationMHz', 1e-9, 1e9],
     ['sidebandPowerFraction', 0, 100],
     ['astigmatismSplitFsr', 0, 0.5],
@@ -362,6 +405,15 @@ function assertOptions(options: SweptTraceOptions): void {
     const value = o[name]
     assertSimOption(value === undefined || isNumberIn(value, min, max), `${name} must be a number from ${min} to ${max}, got ${String(value)}`)
   }
+  const nyquistHz = 1 / (2 * (o.sampleIntervalSeconds ?? 1e-5))
+  assertSimOption(
+    o.detectorRingHz === undefined || o.detectorRingHz < nyquistHz,
+    `detectorRingHz must be below the Nyquist frequency 1/(2·sampleIntervalSeconds) = ${Number(nyquistHz.toPrecision(12))} Hz, got ${String(o.detectorRingHz)}`,
+  )
+  assertSimOption(
+    o.detectorRingDecaySeconds === undefined || (isNumberIn(o.detectorRingDecaySeconds, 0, 1e3) && o.detectorRingDecaySeconds > 0),
+    `detectorRingDecaySeconds must be a number above 0 and at most 1000, got ${String(o.detectorRingDecaySeconds)}`,
+  )
   assertSimOption(
     o.quantizationBits === undefined || Number.isInteger(o.quantizationBits),
     `quantizationBits must be an integer, got ${String(o.quantizationBits)}`,

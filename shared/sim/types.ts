@@ -57,6 +57,17 @@ export interface SweptTraceOptions {
   driftFraction?: number
   /** Detector single-pole low-pass time constant in seconds. @default 0 */
   lowPassTauSeconds?: number
+  /**
+   * Ringing frequency f_r of an under-damped second-order detector (photodiode amplifier), in Hz: each sharp
+   * resonance is followed by a decaying oscillation at f_r. Unit DC gain, so slow signals and peak areas are kept.
+   * Must lie below the Nyquist frequency 1/(2·sampleIntervalSeconds). 0 turns it off. @default 0
+   */
+  detectorRingHz?: number
+  /**
+   * Amplitude decay time τ of that ringing (envelope e^(−t/τ)), in seconds; ignored when detectorRingHz is 0.
+   * @default 1.5 / detectorRingHz (one and a half periods: successive same-sign swings shrink by e^(−1/1.5) ≈ 0.51)
+   */
+  detectorRingDecaySeconds?: number
   /** Phase-modulation frequency in MHz: first-order sidebands at ±f_mod on every carrier order (needs an FSR in Hz). */
   modulationMHz?: number
   /** Power in each first-order sideband relative to its carrier. @default 0 (0.05 when modulationMHz is given) */
@@ -87,7 +98,7 @@ export interface SimulatedPeakTruth {
   kind: 'carrier' | 'sideband'
   /** Relative integrated power (area per FSR, in units of the total carrier power: carriers sum to 1 per FSR). */
   power: number
-  /** This peak's own Airy height in volts before drift, low-pass, ringing and noise (split sub-peaks may overlap). */
+  /** This peak's own Airy height in volts before drift, low-pass, ringing (cavity or detector) and noise (split sub-peaks may overlap). */
   heightV: number
 }
 

@@ -1,18 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import { isEngineError } from '../../../shared/errors'
 import { generateSweptTrace, simPresets, type SweptTraceOptions } from '../../../shared/sim'
+import { errorOf } from './helpers'
 
 const valid: SweptTraceOptions = { gouyOneWayRad: 0.9, finesse: 300, orderPowers: [1, 0.1], sampleCount: 5000, fsrCount: 2 }
-
-function errorOf(options: SweptTraceOptions): { code: string; message: string } {
-  try {
-    generateSweptTrace(options)
-  } catch (error) {
-    if (isEngineError(error)) return { code: error.code, message: error.message }
-    throw error
-  }
-  throw new Error('expected an EngineError')
-}
 
 describe('generateSweptTrace input checks', () => {
   it('when an option is out of range then an EngineError names it, the range and the value', () => {

@@ -1,4 +1,18 @@
-/** Small measuring tools for the generator's tests (no physics here: just reading a sampled trace). */
+/** Small tools for the generator's tests (no physics here: just reading a sampled trace, or catching a refusal). */
+
+import { isEngineError } from '../../../shared/errors'
+import { generateSweptTrace, type SweptTraceOptions } from '../../../shared/sim'
+
+/** The code and message of the EngineError that `generateSweptTrace(options)` throws; fails the test if it does not. */
+export function errorOf(options: SweptTraceOptions): { code: string; message: string } {
+  try {
+    generateSweptTrace(options)
+  } catch (error) {
+    if (isEngineError(error)) return { code: error.code, message: error.message }
+    throw error
+  }
+  throw new Error('expected an EngineError')
+}
 
 /** Index of the sample nearest to time t. */
 export function indexAt(tSeconds: Float64Array, t: number): number {
