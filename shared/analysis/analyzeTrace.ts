@@ -1,4 +1,4 @@
-import { computeCavityModel, type CavityGeometry } from '../cavity'
+import { computeCavityModel, transverseOffsetFsr, type CavityGeometry } from '../cavity'
 import { EngineError, type EngineWarning } from '../errors'
 import type { Trace } from '../trace/types'
 import { selectSweep } from '../sweep/selectSweep'
@@ -19,17 +19,22 @@ import { assignOrders, type OrderLabel } from '../orders/assignOrders'
 import { directionByLineModel } from '../orders/directionByLineModel'
 import { MAX_LINE_CHI_SQUARE, MAX_MODEL_CHI_SQUARE, measureOrderShares } from '../orders/measureOrderShares'
 import { fundamentalOnlyShares, peakAreaShares } from '../orders/peakAreaShares'
+import { readSpectrum } from '../orders/readSpectrum'
+import { countingWindow } from '../orders/countingWindow'
 import { frac, fmt, median } from '../numbers'
 import { finesseFromRingdown, ringLobes, sweepSpeedOf } from './finesseFromRingdown'
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings, SWEEP_SPEED_RINGING } from './collectWarnings'
+import { readingDoubts } from './readingDoubts'
 import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 
 /** Highest transverse order the assignment considers. */
 const MAX_ORDER = 10
 /** Orders always measured at their predicted places, detected or not (the ones that tell the mode-match). */
 const ALWAYS_MEASURED_ORDERS = 4
+/** A reading's mirror image must cost this much more (in units of the tallest resonance's height) to settle the direction. */
+const DIRECTION_COST = 0.03
 
 /**
  * Reads a swept-cavity trace: selects the sweep, finds and measures every resonance, calibrates time to optical
@@ -85,12 +90,31 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const measured = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
   const tOf = (m: MeasuredResonance) => timeAt(sweep.startIndex + m.centerIndex)
 
-  // 5. TEM00 comb and a first calibration on it.
-  const families0 = orderFamilies(predictedGouy, MAX_ORDER, 0.005)
+  // 5. Reading: which family is TEM00, the sweep direction and the Gouy phase, from the whole pattern (any family
+  // that repeats one FSR later calibrates the sweep). Without a repeat, the tallest comb is all there is.
   const sidebandOffsetFsr = modulationMHz ? (modulationMHz * 1e6) / model.fsrHz : null
-  const comb = unlessLadder(chooseComb(measured, tOf, predictedGouy, families0.leaders, sidebandOffsetFsr, roughWidth, MAX_ORDER), measured, predictedGouy, signal.length, families0.leaders, roughWidth)
-  let calibration: SweepCalibration | null = null
-  if (comb.members.length >= 2) calibration = calibrateSweep(comb.members.map((k) => tOf(measured[k])), comb.fsrIndex)
+  const families0 = orderFamilies(predictedGouy, MAX_ORDER, 0.005)
+  const tallestComb = unlessLadder(chooseComb(measured, tOf, predictedGouy, families0.leaders, sidebandOffsetFsr, roughWidth, MAX_ORDER), measured, predictedGouy, signal.length, families0.leaders, roughWidth)
+  const readings = readSpectrum(
+    measured.map((m) => ({ tSeconds: tOf(m), heightV: m.heightV, widthSeconds: m.fwhmSamples * dt })),
+    {
+      predictedGouyRad: predictedGouy,
+      sigmaV,
+      sidebandOffsetFsr: sidebandOffsetFsr === null ? null : frac(sidebandOffsetFsr),
+      startSeconds: timeAt(sweep.startIndex),
+      endSeconds: timeAt(sweep.endIndex - 1),
+      directions: options.sweepDirection ? [options.sweepDirection] : undefined,
+      comb: tallestComb,
+    },
+  )
+  const reading = readings[0] ?? null
+  // A Gouy phase read from a poorly calibrated sweep (TEM00 off its whole numbers by more than 0.5 % of an FSR) is
+  // not trusted to overrule the geometry: the assignment then starts from the prediction, as on a TEM00 comb.
+  const gouyFromData = reading !== null && reading.calibration.residualRmsFsr <= 0.005
+  const readingGouy = gouyFromData ? reading.gouyRad : predictedGouy
+  const comb = reading ? { members: reading.fundamentals, fsrIndex: reading.fsrIndex } : tallestComb
+  let calibration: SweepCalibration | null = reading?.calibration ?? null
+  if (!calibration && comb.members.length >= 2) calibration = calibrateSweep(comb.members.map((k) => tOf(measured[k])), comb.fsrIndex)
 
   // 6. Linewidth: each TEM00 fitted with its sidebands, widths taken through the local sweep rate.
   let shapes = calibration ? fitFundamentals(signal, measured, comb.members, calibration, sidebandOffsetFsr, sigmaV, dt, tOf, null) : []
@@ -107,14 +131,22 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     measured[s.member] = { ...measured[s.member], centerIndex: s.centerIndex, heightV: s.heightV, fwhmSamples: s.fwhmSamples, fwhmErrorSamples: s.fwhmErrorSamples, fitted: true }
   }
 
+  // The stretch over which orders are counted: whole periods between TEM00, or one FSR when a single TEM00 is in view.
+  const windowOf = (cal: SweepCalibration, d: 'up' | 'down', psi: number) => {
+    const sign = d === 'up' ? 1 : -1
+    const offsets = families0.leaders.filter((order) => order > 0 && order <= ALWAYS_MEASURED_ORDERS).map((order) => sign * transverseOffsetFsr(order, psi))
+    const w = countingWindow(comb.fsrIndex, [frequencyAt(cal, timeAt(sweep.startIndex)), frequencyAt(cal, timeAt(sweep.endIndex - 1))], offsets)
+    return w ? { firstIndex: w.first, lastIndex: w.last } : { firstIndex: 0, lastIndex: 0 }
+  }
+
   // 7. Orders: families of degenerate orders, assignment, then the calibration refined with every carrier.
   const toleranceFsr = Math.min(0.06, Math.max(0.02, 4 * linewidthFsr))
-  const families = orderFamilies(predictedGouy, MAX_ORDER, Math.max(2 * linewidthFsr, 0.005))
+  const families = orderFamilies(readingGouy, MAX_ORDER, Math.max(2 * linewidthFsr, 0.005))
   const isFundamental = new Set(comb.members)
   let labels: OrderLabel[]
   let direction: 'up' | 'down' | 'unknown' = 'unknown'
   let directionEvidence = 'Fewer than two TEM00 resonances: the optical sweep direction is unknown.'
-  let gouy = predictedGouy
+  let gouy = readingGouy
   let orderResidual: number | null = null
   if (calibration) {
     const firstCalibration: SweepCalibration = calibration
@@ -136,26 +168,33 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       )
     // ψ is refined only when three or more TEM00 resonances pin the sweep: with two, a bend of the sweep and a
     // change of ψ move the transverse modes alike and cannot be told apart.
-    const maxShift = comb.members.length >= 3 ? 0.03 * predictedGouy : 0
+    const pinned = comb.members.length >= 3 || (reading !== null && reading.calibratingLinks >= 3)
+    const maxShift = pinned ? 0.03 * readingGouy : 0
     const assignAndRefine = (directions: ('up' | 'down')[]) => {
       let cal = firstCalibration
-      let psi = predictedGouy
+      let psi = readingGouy
       let assignment = assign(cal, psi, toleranceFsr, maxShift, directions)
       for (let round = 0; round < 2; round++) {
         const points = measured
           .map((m, i) => ({ m, l: assignment.labels[i] }))
           .filter(({ l }, i) => l.kind === 'carrier' && l.order !== null && votes(i))
           .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: Math.min(m.heightV / sigmaV, 200) ** 2 }))
-        const refined = calibrateWithOrders(points, cal, assignment.direction, predictedGouy, { maxGouyShiftRad: maxShift, outlierFsr: Math.max(1e-4, 0.5 * linewidthFsr) })
+        const refined = calibrateWithOrders(points, cal, assignment.direction, readingGouy, { maxGouyShiftRad: maxShift, outlierFsr: Math.max(1e-4, 0.5 * linewidthFsr) })
         cal = refined.calibration
         psi = refined.gouyRad
-        assignment = assign(cal, psi, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * predictedGouy, directions)
+        assignment = assign(cal, psi, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * readingGouy, directions)
       }
       return { assignment, calibration: cal, gouy: psi }
     }
-    let outcome = assignAndRefine(['up', 'down'])
-    directionEvidence = outcome.assignment.directionEvidence
-    if (!outcome.assignment.directionSettled && finesse) {
+    // The reading decides the direction when its mirror image (same TEM00, other direction) explains the resonances
+    // clearly worse; otherwise the weak lines are asked (below).
+    const mirror = reading ? readings.find((r) => r.direction !== reading.direction && r.fundamentals.join() === reading.fundamentals.join()) : undefined
+    const readingSettles = reading !== null && (options.sweepDirection !== undefined || !mirror || mirror.cost - reading.cost >= DIRECTION_COST)
+    let outcome = assignAndRefine(reading && readingSettles ? [reading.direction] : options.sweepDirection ? [options.sweepDirection] : ['up', 'down'])
+    directionEvidence = reading && readingSettles && !options.sweepDirection
+      ? `The resonances' places decide it: read as ${reading.direction} (${reading.direction === 'up' ? 'optical frequency rises with time' : 'optical frequency falls with time'}), the orders stand at their N·ψ/π places${mirror ? `; read the other way they explain ${fmt(100 * Math.min(1, mirror.cost - reading.cost))} % of the tallest resonance's height less` : ''}.`
+      : outcome.assignment.directionEvidence
+    if (!readingSettles && !options.sweepDirection && !outcome.assignment.directionSettled && finesse) {
       // The resonances found do not settle the direction (none stood out, or the pattern is nearly symmetric):
       // measure every order at its predicted places for both directions, where the matched filter sums the weak
       // lines of every FSR, and keep the direction whose transverse lines stand out more.
@@ -163,7 +202,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
         signal, raw: part, darkLevelV, sigmaV, calibration: o.calibration, direction: d, gouy: o.gouy, finesse: finesse!.value,
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((sh) => sh.sidebandRatio)) } : null,
         orders: families.leaders.filter((order) => order <= ALWAYS_MEASURED_ORDERS), detected: [], placementToleranceFsr: 0,
-        firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
+        ...windowOf(o.calibration, d, o.gouy),
         startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth, preferHeight: true,
       }), outcome, assignAndRefine)
       if (verdict) {
@@ -190,9 +229,11 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   for (const [lobe, owner] of lobes) lobeArea.set(owner, (lobeArea.get(owner) ?? 0) + measured[lobe].areaVSamples)
 
   // 8. Power per order: every order measured at its predicted place over whole FSR periods.
+  const countedSpan = calibration ? windowOf(calibration, direction === 'down' ? 'down' : 'up', gouy) : null
+  const window = countedSpan && countedSpan.lastIndex > countedSpan.firstIndex ? { first: countedSpan.firstIndex, last: countedSpan.lastIndex } : null
   const fastStructure = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3)
   const ordersMeasured = measuredOrders(families.leaders, labels)
-  let shares = calibration && finesse
+  let shares = calibration && finesse && window
     ? measureOrderShares({
         signal, raw: part, darkLevelV, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
@@ -203,7 +244,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
           .map((m, i) => ({ nu: positions[i], order: labels[i].kind === 'carrier' ? labels[i].order : null, heightV: m.heightV }))
           .filter((d): d is { nu: number; order: number; heightV: number } => d.order !== null && Number.isFinite(d.nu)),
         placementToleranceFsr: Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)),
-        firstIndex: Math.min(...comb.fsrIndex), lastIndex: Math.max(...comb.fsrIndex),
+        firstIndex: window!.first, lastIndex: window!.last,
         startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
       })
@@ -211,7 +252,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   if (calibration && shares.reducedChiSquare !== null && shares.reducedChiSquare > MAX_MODEL_CHI_SQUARE) {
     // The lines do not follow one shared shape (split, ringing or distorted resonances, a poorly followed sweep):
     // fall back to the integrated power of each resonance found, wherever it sits.
-    const fallback = peakAreaShares(measured, labels, positions, calibration, comb.fsrIndex, toleranceFsr, dt, tOf)
+    const fallback = peakAreaShares(measured, labels, positions, calibration, [window!.first, window!.last], toleranceFsr, dt, tOf)
     if (fallback) shares = { ...fallback, reducedChiSquare: shares.reducedChiSquare }
   }
   const { orders, fundamentalFraction } = shares
@@ -244,8 +285,18 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     }
   })
 
+  const doubts = readingDoubts({
+    readings,
+    fundamentalFraction,
+    cavity,
+    predictedGouyRad: predictedGouy,
+    measuredGouyRad: calibration && gouyFromData ? gouy : null,
+    transverseCount: labels.filter((l) => l.kind === 'carrier' && l.order !== null && l.order > 0).length,
+    directionGiven: options.sweepDirection !== undefined,
+  })
   const warnings: EngineWarning[] = [
     ...trace.warnings,
+    ...doubts.warnings,
     ...(shares.splitFsr > 0
       ? [{
           code: 'split_orders',
@@ -308,7 +359,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     measureReason: useHeight
       ? `Fitted heights (${usedModel} lines at the predicted places, one shared linewidth): the resonances are well sampled (${fmt(samplesPerLinewidth)} samples per linewidth) and smooth.`
       : `Integrated power (area): ${fastStructure ? 'fast structure inside the resonances' : samplesPerLinewidth < 6 ? `only ${fmt(samplesPerLinewidth)} samples per linewidth` : 'the lines do not follow the fitted shape'} makes heights unreliable.`,
-    gouy: { predictedOneWayRad: predictedGouy, measuredOneWayRad: calibration ? gouy : null },
+    gouy: { predictedOneWayRad: predictedGouy, measuredOneWayRad: calibration ? gouy : null, impliedLengthMm: doubts.impliedLengthMm },
+    alternativeReading: doubts.alternative,
     peaks,
     sweep: {
       direction,

@@ -72,7 +72,21 @@ export const analysisResultSchema = z.object({
   reading: z.string(),
   measure: z.enum(['area', 'height']),
   measureReason: z.string(),
-  gouy: z.object({ predictedOneWayRad: z.number(), measuredOneWayRad: z.number().nullable() }),
+  gouy: z.object({
+    predictedOneWayRad: z.number(),
+    measuredOneWayRad: z.number().nullable(),
+    /** Mirror spacing the measured phase implies with the entered radii, mm, when it disagrees with the geometry (absent in older results). */
+    impliedLengthMm: z.number().nullable().optional(),
+  }),
+  /**
+   * Another reading of the resonances that explains them about as well (see the `ambiguous_reading` warning): its
+   * rough TEM00 fraction, sweep direction, Gouy phase and FSR on the time axis. Null when the reading is clear;
+   * absent in older results.
+   */
+  alternativeReading: z
+    .object({ fundamentalFraction: z.number(), direction: z.enum(['up', 'down']), gouyOneWayRad: z.number(), fsrSeconds: z.number() })
+    .nullable()
+    .optional(),
   peaks: z.array(analysisPeakSchema),
   sweep: z.object({
     direction: z.enum(['up', 'down', 'unknown']),
@@ -120,4 +134,9 @@ export interface AnalyzeOptions {
   peakModel?: 'auto' | 'lorentzian' | 'airy'
   /** Else cavity.modulationMHz. */
   modulationMHz?: number
+  /**
+   * Which way the optical frequency runs during the sweep, when the lab knows it ('up': rising with time). It settles
+   * the one thing a spectrum cannot: its mirror image, read with TEM00 at the other end of the orders. @default from the data
+   */
+  sweepDirection?: 'up' | 'down'
 }

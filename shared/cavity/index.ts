@@ -9,6 +9,7 @@ export {
 export { transverseOffsetFsr } from './transverseOffsetFsr'
 export { gParameters, type GParameters } from './gParameters'
 export { gouyPhaseOneWay } from './gouyPhaseOneWay'
+export { lengthForGouyPhase } from './lengthForGouyPhase'
 export { eigenmodeWaist, type EigenmodeWaist } from './eigenmodeWaist'
 export { mirrorSpotRadii, type MirrorSpotRadii } from './mirrorSpotRadii'
 export { freeSpectralRangeHz, SPEED_OF_LIGHT_M_PER_S } from './freeSpectralRangeHz'

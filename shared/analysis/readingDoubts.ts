@@ -1,0 +1,82 @@
+import { lengthForGouyPhase, type CavityGeometry } from '../cavity'
+import type { EngineWarning } from '../errors'
+import type { SpectrumReading } from '../orders/readSpectrum'
+import { fmt } from '../numbers'
+
+/**
+ * A rival reading that costs less than this much more than the best (in units of the tallest resonance's height:
+ * about one unexplained resonance of a tenth of the tallest) is as good an account of the data. Set on the tuning
+ * cases of seed 7100 (tests/unit/accuracy/sessionCases.ts), where every wrong reading had a rival within 0.01–0.09
+ * and two-thirds of the right ones had none within 0.1; checked on other seeds by scripts/survey-accuracy.ts.
+ */
+export const AMBIGUITY_COST = 0.1
+
+/** The data's Gouy phase must differ from the geometry's by more than this (relative) to call the geometry wrong. */
+const GOUY_MISMATCH = 0.015
+
+export interface AlternativeReading {
+  /** TEM00 fraction of the rival reading, from its families' heights (rough). */
+  fundamentalFraction: number
+  direction: 'up' | 'down'
+  gouyOneWayRad: number
+  fsrSeconds: number
+}
+
+export interface ReadingDoubts {
+  warnings: EngineWarning[]
+  alternative: AlternativeReading | null
+  /** Mirror spacing the measured Gouy phase implies with the entered radii, mm (null when it agrees or says nothing). */
+  impliedLengthMm: number | null
+}
+
+/**
+ * What the engine cannot be sure of in its reading of the spectrum, said plainly:
+ * - `ambiguous_reading`: another reading (another family as TEM00, the other sweep direction, another period)
+ *   explains the resonances about as well and gives a TEM00 fraction more than 3 points away;
+ * - `geometry_mismatch`: the Gouy phase measured from the transverse orders differs from the geometry's, and the
+ *   length that would give it (Kogelnik & Li, Appl. Opt. 5, 1550 (1966)) is named.
+ */
+export function readingDoubts(input: {
+  readings: SpectrumReading[]
+  fundamentalFraction: number
+  cavity: CavityGeometry
+  predictedGouyRad: number
+  measuredGouyRad: number | null
+  /** Transverse resonances whose places measured ψ (resonances of order ≥ 1 labelled). */
+  transverseCount: number
+  directionGiven: boolean
+}): ReadingDoubts {
+  const warnings: EngineWarning[] = []
+  const [best, ...others] = input.readings
+  let alternative: AlternativeReading | null = null
+  if (best) {
+    // A rival puts TEM00 on other resonances (another family, or another period); the same TEM00 with another Gouy
+    // phase changes which weak orders are named, not the TEM00 fraction the line model measures.
+    const sameFamily = (r: SpectrumReading) => r.fundamentals.some((i) => best.fundamentals.includes(i)) && Math.abs(r.periodSeconds / best.periodSeconds - 1) <= 0.03
+    const rival = others.find((r) => !sameFamily(r) && Math.abs(r.roughFraction - best.roughFraction) > 0.03)
+    if (rival && rival.cost - best.cost < AMBIGUITY_COST) {
+      alternative = { fundamentalFraction: rival.roughFraction, direction: rival.direction, gouyOneWayRad: rival.gouyRad, fsrSeconds: rival.calibration.fsrSeconds }
+      const decide: string[] = []
+      if (Math.abs(rival.periodSeconds / best.periodSeconds - 1) > 0.03) decide.push('a sweep over more FSRs, so that every family of resonances repeats')
+      if (rival.direction !== best.direction && !input.directionGiven) decide.push('the sweep direction, if you know which way the optical frequency runs during the sweep (analysis option sweepDirection)')
+      if (Math.abs(rival.gouyRad / best.gouyRad - 1) > 0.03) decide.push('a check of the cavity length and mirror radii')
+      decide.push('a trace after a small alignment change: TEM00 is the family that grows as the alignment improves')
+      warnings.push({
+        code: 'ambiguous_reading',
+        message: `The resonances can be read two ways that explain them about equally well: TEM00 ${fmt(100 * input.fundamentalFraction)} % (reported), or about ${fmt(100 * rival.roughFraction)} % with another family as TEM00 (sweep ${rival.direction}, Gouy phase ${rival.gouyRad.toFixed(3)} rad). The data cannot decide between them; what would: ${decide.join('; ')}.`,
+      })
+    }
+  }
+  let impliedLengthMm: number | null = null
+  if (input.measuredGouyRad !== null && input.transverseCount >= 2 && Math.abs(input.measuredGouyRad / input.predictedGouyRad - 1) > GOUY_MISMATCH) {
+    impliedLengthMm = lengthForGouyPhase(input.cavity, input.measuredGouyRad)
+    const lengthText = impliedLengthMm !== null
+      ? `With the entered mirror radii that is a length of ${impliedLengthMm.toFixed(1)} mm (entered: ${input.cavity.lengthMm} mm).`
+      : 'No length gives it with the entered mirror radii: check the radii too.'
+    warnings.push({
+      code: 'geometry_mismatch',
+      message: `The transverse orders stand where a one-way Gouy phase of ${input.measuredGouyRad.toFixed(4)} rad puts them; the entered geometry predicts ${input.predictedGouyRad.toFixed(4)} rad (${fmt(100 * (input.measuredGouyRad / input.predictedGouyRad - 1))} %). ${lengthText} The orders are labelled with the measured phase.`,
+    })
+  }
+  return { warnings, alternative, impliedLengthMm }
+}
