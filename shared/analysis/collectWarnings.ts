@@ -102,7 +102,8 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
     }
   }
   const trailing = trailingTail(input)
-  if (trailing !== null && trailing.shift >= Math.max(TRAILING_TAIL, 4 * trailing.error) && !fast) {
+  // A clipped top has no single maximum to measure the tail from.
+  if (trailing !== null && trailing.shift >= Math.max(TRAILING_TAIL, 4 * trailing.error) && !fast && !saturated) {
     w.push({
       code: 'slow_detector',
       message: `The TEM00 resonances trail a tail after their peak (their centre of mass lies ${trailing.shift.toFixed(2)} linewidths after the maximum; a Lorentzian has none): the detector or its amplifier is too slow for the sweep. The linewidth reads wide and the finesse low; the order shares stay sound, since every order is smeared alike. Use a faster detector, less gain, or a slower sweep to measure the linewidth.`,
@@ -170,42 +171,49 @@ function trailingTail(input: WarningInputs): { shift: number; error: number } | 
  */
 const TRAILING_TAIL = 0.06
 
+/**
+ * A saturated detector or digitiser cuts the tall resonances flat: their samples hold the highest value over the
+ * stretch where the line would have stood above the clip. An unclipped line is rounded at its top: near the maximum
+ * a Lorentzian or Airy line falls as H·(1 − x²) (x in half-widths; Born & Wolf, "Principles of Optics", §7.6), so the
+ * samples within δ of its top span only 2·HWHM·√(δ/H). The samples counted at the top are those on the top code
+ * (quantised) or within 4σ of it; δ is one code plus the noise beyond quantisation. A resonance is called clipped when
+ * it holds the top for 3 samples or more and more than twice that span (a factor of two for safety, common practice).
+ * So a single top sample, or resonances of equal height that reach the same code because the full scale sits just
+ * above them, are not saturation; resonances narrower than about 3 samples cannot show it.
+ */
 function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV: number, sigmaV: number): string | null {
-  // Highest value and the longest run of samples holding it, in one pass.
   let top = -Infinity
-  let longestRun = 0
-  let run = 0
-  for (let i = 0; i < part.length; i++) {
-    const v = part[i]
-    if (v > top) {
-      top = v
-      run = 1
-      longestRun = 1
-    } else if (v === top) {
-      run++
-      if (run > longestRun) longestRun = run
-    } else {
-      run = 0
-    }
-  }
-  // A real peak touches its maximum once; a clipped digitiser holds it, or stops several peaks at one code.
-  let peaksAtTop = 0
+  for (let i = 0; i < part.length; i++) if (part[i] > top) top = part[i]
+  if (!(top > -Infinity)) return null
+  // Noise beyond the quantisation noise q/√12 (Bennett, Bell Syst. Tech. J. 27, 446 (1948)).
+  const extraNoiseV = Math.sqrt(Math.max(0, sigmaV * sigmaV - (quantumV * quantumV) / 12))
+  const band = quantumV > 0 ? quantumV / 2 + 4 * extraNoiseV : 4 * sigmaV
+  const depthV = quantumV + 8 * extraNoiseV + (quantumV > 0 ? 0 : 4 * sigmaV)
+  const heightV = top - baselineOf(part)
+  if (!(heightV > 2 * band)) return null
+  let clipped = 0
+  let longest = 0
+  let expectedAtLongest = 0
   for (const m of measured) {
     const c = Math.round(m.centerIndex)
-    const reach = Math.max(2, Math.ceil(2 * m.fwhmSamples))
+    const reach = Math.max(3, Math.ceil(2 * m.fwhmSamples))
+    let run = 0
+    let longestHere = 0
     for (let i = Math.max(0, c - reach); i <= Math.min(part.length - 1, c + reach); i++) {
-      if (part[i] === top) { peaksAtTop++; break }
+      run = part[i] >= top - band ? run + 1 : 0
+      if (run > longestHere) longestHere = run
+    }
+    if (longestHere < 3) continue
+    const expected = m.fwhmSamples * Math.sqrt(depthV / heightV) + 1
+    if (longestHere <= 2 * expected) continue
+    clipped++
+    if (longestHere > longest) {
+      longest = longestHere
+      expectedAtLongest = expected
     }
   }
-  // A fit through the wings that overshoots the highest sample means the top was cut off.
-  const ceilingV = top + Math.max(5 * sigmaV, 2 * quantumV) - baselineOf(part)
-  const overshoot = measured.some((m) => m.fitted && m.heightV > ceilingV)
-  const heights = measured.map((m) => m.maxV).sort((a, b) => b - a)
-  const uneven = heights.length >= 3 && heights[0] > 1.3 * heights[Math.min(heights.length - 1, 2)]
-  if (overshoot || (quantumV > 0 && peaksAtTop >= 2 && uneven && longestRun >= 1)) {
-    return `The transmission stops at the same top value (${top.toPrecision(4)} V) in ${peaksAtTop} resonance(s)${longestRun >= 3 ? ` and holds it for ${longestRun} samples` : ''}: the detector or digitiser is likely clipped, so the tallest resonances read low and the TEM00 fraction low. Reduce the gain or the vertical scale.`
-  }
-  return null
+  if (clipped === 0) return null
+  return `${clipped} resonance(s) are cut flat at the top value (${top.toPrecision(4)} V): up to ${longest} samples in a row hold it, where an unclipped line of that width would stay within one step of its top for about ${Math.max(1, Math.round(expectedAtLongest))}. The detector or digitiser is likely saturated, so the tallest resonances read low and the TEM00 fraction low. Reduce the gain or the vertical scale.`
 }
 
 function degeneracy(input: WarningInputs): string | null {

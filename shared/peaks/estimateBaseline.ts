@@ -19,6 +19,11 @@ export interface EstimateBaselineOptions {
    * the resonance wings' share in each block, not drift, and following them would bend the lines' wings. @default 4
    */
   minDriftSigma?: number
+  /**
+   * Digitiser step, volts (0: not quantised). When the noise stays within a step, the level is read from how the
+   * samples share the codes rather than from a Gaussian band. @default 0
+   */
+  quantumV?: number
 }
 
 /**
@@ -28,7 +33,7 @@ export interface EstimateBaselineOptions {
  * unlike a low quantile.
  */
 export function estimateBaseline(values: Float64Array, sigmaV: number, options: EstimateBaselineOptions = {}): BaselineEstimate {
-  const { blockCount = 16, clipSigma = 3, followDrift = true, minDriftSigma = 4 } = options
+  const { blockCount = 16, clipSigma = 3, followDrift = true, minDriftSigma = 4, quantumV = 0 } = options
   const n = values.length
   if (n < 3) throw new EngineError('too_few_samples', `A baseline needs at least 3 samples, got ${n}`)
   if (!(sigmaV >= 0)) throw new EngineError('invalid_argument', `sigmaV must be a non-negative number, got ${sigmaV}`)
@@ -43,7 +48,7 @@ export function estimateBaseline(values: Float64Array, sigmaV: number, options: 
     let count = 0
     for (let i = i0; i < i1; i += stride) if (Number.isFinite(values[i])) scratch[count++] = values[i]
     // Native numeric sort of a typed array: no comparator calls, no boxed numbers.
-    levels.push(clippedMedian(scratch.subarray(0, count).sort(), sigmaV, clipSigma))
+    levels.push(clippedMedian(scratch.subarray(0, count).sort(), sigmaV, clipSigma, quantumV))
     centres.push((i0 + i1 - 1) / 2)
   }
   const finiteLevels = levels.filter(Number.isFinite)
@@ -69,12 +74,14 @@ function interpolateLevels(levels: number[], centres: number[], n: number): Floa
   return baselineV
 }
 
-function clippedMedian(sample: Float64Array, sigmaV: number, clipSigma: number): number {
+function clippedMedian(sample: Float64Array, sigmaV: number, clipSigma: number, quantumV: number): number {
   if (sample.length === 0) return NaN
   let level = sample[Math.floor(sample.length / 2)]
   let count = sample.length
+  // On a coarse grid the clip keeps the code above the median: noise of a fraction of a step fills it.
+  const reach = Math.max(clipSigma * sigmaV, 1.5 * quantumV)
   for (let iteration = 0; iteration < 8; iteration++) {
-    const limit = level + clipSigma * sigmaV
+    const limit = level + reach
     let k = count
     while (k > 1 && sample[k - 1] > limit) k--
     const next = sample[Math.floor(k / 2)]
@@ -82,6 +89,7 @@ function clippedMedian(sample: Float64Array, sigmaV: number, clipSigma: number):
     level = next
     count = k
   }
+  if (quantumV > 0 && sigmaV < quantumV) return groupedLevel(sample.subarray(0, count), level, quantumV)
   // Mean of the samples within clipSigma·σ below the median (those equal to it counted half), moved up by the
   // mean distance of that band for Gaussian noise, σ(φ(0) − φ(k))/(Φ(0) − Φ(−k)): resolves levels finer than an
   // 8-bit step, and, unlike a band about the median, it holds no resonance wings (they lie above the dark level),
@@ -101,6 +109,25 @@ function clippedMedian(sample: Float64Array, sigmaV: number, clipSigma: number):
   const phi = (x: number) => Math.exp(-0.5 * x * x) / Math.sqrt(2 * Math.PI)
   const lowerBandMean = (phi(0) - phi(k)) / (0.5 - normalTail(k))
   return sum / used + lowerBandMean * sigmaV
+}
+
+/**
+ * Level of samples on a grid of step q whose noise stays within about a step: the median interpolated inside its code,
+ * c − q/2 + q·(n/2 − below)/inside, the grouped-data median (common practice). A quiet baseline all on one code reads
+ * as that code (where it lies within the step cannot be known without noise to dither it, Widrow & Kollár,
+ * "Quantization Noise" (2008), ch. 2); noise of a fraction of a step moves it by the share of samples on either
+ * neighbour. The Gaussian band below would read a code as about 0.8σ higher.
+ */
+function groupedLevel(sample: Float64Array, code: number, q: number): number {
+  const lower = code - q / 2
+  const upper = code + q / 2
+  let below = 0
+  let inside = 0
+  for (let i = 0; i < sample.length; i++) {
+    if (sample[i] < lower) below++
+    else if (sample[i] < upper) inside++
+  }
+  return inside > 0 ? lower + (q * (sample.length / 2 - below)) / inside : code
 }
 
 /** Upper tail of the standard normal, Q(x) for x ≥ 0 (Abramowitz & Stegun 26.2.17, error < 7.5e-8). */

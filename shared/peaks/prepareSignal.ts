@@ -13,7 +13,7 @@ export interface PreparedSignal {
 export function prepareSignal(part: Float64Array): PreparedSignal {
   const noise = estimateNoise(part)
   const sigmaV = Math.max(noise.sigmaV, 1e-9 * spanOf(part))
-  const { baselineV, darkLevelV } = estimateBaseline(part, sigmaV)
+  const { baselineV, darkLevelV } = estimateBaseline(part, sigmaV, { quantumV: noise.quantumV })
   // The baseline's own array becomes the signal (one array less on long records).
   const signal = subtractInPlace(part, baselineV)
   return { signal, sigmaV, darkLevelV, quantumV: noise.quantumV }
