@@ -6,11 +6,12 @@ import { findSweepInData } from '../sweep/findSweepInData'
 import { indexRange } from '../sweep/indexRange'
 import { assertVaries, prepareSignal, type PreparedSignal } from '../peaks/prepareSignal'
 import { rawMax, tallResonances } from '../peaks/tallResonances'
+import { foldFastStructure } from '../peaks/foldFastStructure'
 import { findResonances } from '../peaks/findResonances'
 import { smoothSignal } from '../peaks/smoothSignal'
 import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
 import { finesseFrom, fitFundamentals } from '../peaks/fitFundamentals'
-import { calibrateSweep, frequencyAt, type SweepCalibration } from '../calibration/calibrateSweep'
+import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { calibrateWithOrders } from '../calibration/calibrateWithOrders'
 import { findFundamentals } from '../orders/findFundamentals'
 import { chooseComb, unlessLadder } from '../orders/chooseComb'
@@ -87,8 +88,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   if (candidates.length === 0) {
     throw new EngineError('no_resonances', 'No resonance stands out of the noise in the selected sweep; check the channel and the sweep range')
   }
-  const measured = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
   const tOf = (m: MeasuredResonance) => timeAt(sweep.startIndex + m.centerIndex)
+  // Periodic fast structure after each resonance (a detector that rings) is folded into the resonance it follows:
+  // its lobes are no resonances of the cavity and must never be read as a comb.
+  const found = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
+  const structure = foldFastStructure(found.map((m) => ({ tSeconds: tOf(m), heightV: m.heightV, widthSeconds: m.fwhmSamples * dt })), { sigmaV })
+  const measured = structure.ownerOf.size ? foldLobes(found, structure.ownerOf) : found
 
   // 5. Reading: which family is TEM00, the sweep direction and the Gouy phase, from the whole pattern (any family
   // that repeats one FSR later calibrates the sweep). Without a repeat, the tallest comb is all there is.
@@ -297,6 +302,12 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const warnings: EngineWarning[] = [
     ...trace.warnings,
     ...doubts.warnings,
+    ...(structure.ownerOf.size && structure.periodSeconds
+      ? [{
+          code: 'detector_ringing',
+          message: `${structure.ownerOf.size} small peaks follow the resonances at a constant spacing of ${fmt(structure.periodSeconds * 1e6)} µs (${fmt(1e-3 / structure.periodSeconds)} kHz), each lower than the one before: the detector or its amplifier rings. They are folded into the resonance they follow (their area counts with it) and are not read as resonances. A detector this slow also widens the lines, so the linewidth reads wide and the finesse low; a faster photodiode or a lower amplifier gain removes the ringing.`,
+        }]
+      : []),
     ...(shares.splitFsr > 0
       ? [{
           code: 'split_orders',
@@ -337,12 +348,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   return {
     fundamentalFraction,
     fundamentalFractionError: shares.fundamentalFractionError,
-    fsr: {
-      seconds: calibration?.fsrSeconds ?? null,
-      hz: fsrHz,
-      meanSpacingSeconds: calibration?.meanSpacingSeconds ?? null,
-      spacingRangeSeconds: calibration?.spacingRangeSeconds ?? null,
-    },
+    fsr: { ...fsrOnTimeAxis(calibration, combTimes), hz: fsrHz },
     finesse: finesse?.value ?? null,
     finesseError: finesse?.error ?? null,
     linewidthHz: finesse?.value ? fsrHz / finesse.value : null,
@@ -394,6 +400,26 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
 function measuredOrders(leaders: number[], labels: OrderLabel[]): number[] {
   const seen = new Set(labels.filter((l) => l.kind === 'carrier' && l.order !== null).map((l) => l.order!))
   return leaders.filter((order) => order <= ALWAYS_MEASURED_ORDERS || seen.has(order))
+}
+
+/**
+ * The FSR on the file's time axis: the TEM00 spacings (median, mean, range) with two or more TEM00; with one, the
+ * local period of the calibrated sweep at it (its inverse rate, which the transverse families pin).
+ */
+function fsrOnTimeAxis(calibration: SweepCalibration | null, fundamentalTimes: number[]): { seconds: number | null; meanSpacingSeconds: number | null; spacingRangeSeconds: [number, number] | null } {
+  if (!calibration) return { seconds: null, meanSpacingSeconds: null, spacingRangeSeconds: null }
+  if (fundamentalTimes.length === 1) {
+    const local = 1 / Math.abs(sweepRateAt(calibration, fundamentalTimes[0]))
+    return { seconds: local, meanSpacingSeconds: local, spacingRangeSeconds: [local, local] }
+  }
+  return { seconds: calibration.fsrSeconds, meanSpacingSeconds: calibration.meanSpacingSeconds, spacingRangeSeconds: calibration.spacingRangeSeconds }
+}
+
+/** The resonances less the lobes of fast structure, each lobe's area added to the resonance it follows. */
+function foldLobes(found: MeasuredResonance[], ownerOf: Map<number, number>): MeasuredResonance[] {
+  const extra = new Map<number, number>()
+  for (const [lobe, owner] of ownerOf) extra.set(owner, (extra.get(owner) ?? 0) + found[lobe].areaVSamples)
+  return found.flatMap((m, i) => (ownerOf.has(i) ? [] : [{ ...m, areaVSamples: m.areaVSamples + (extra.get(i) ?? 0) }]))
 }
 
 function orientedFraction(positionFsr: number, direction: 'up' | 'down' | 'unknown'): number {

@@ -334,7 +334,11 @@ function listPeaks(
     for (let m = Math.ceil(low - family.offsetFsr); m + family.offsetFsr <= high; m++) {
       const t = timeOfDetuning(m + family.offsetFsr)
       if (t === null) continue
-      peaks.push({ t, order: family.order, kind: family.kind, power: family.power, heightV: family.heightV })
+      // Local time per FSR: the inverse sweep rate at the peak, by a central difference of the sweep model.
+      const before = timeOfDetuning(m + family.offsetFsr - 1e-3)
+      const after = timeOfDetuning(m + family.offsetFsr + 1e-3)
+      const fsrSecondsHere = before !== null && after !== null ? Math.abs(after - before) / 2e-3 : null
+      peaks.push({ t, order: family.order, kind: family.kind, power: family.power, heightV: family.heightV, fsrSecondsHere })
     }
   }
   return peaks.sort((a, b) => a.t - b.t)

@@ -100,6 +100,8 @@ export interface SimulatedPeakTruth {
   power: number
   /** This peak's own Airy height in volts before drift, low-pass, ringing (cavity or detector) and noise (split sub-peaks may overlap). */
   heightV: number
+  /** Time the sweep takes for one FSR at this peak (the inverse local sweep rate), seconds; null at the sweep's ends. */
+  fsrSecondsHere: number | null
 }
 
 export interface SweptTraceTruth {
