@@ -15,7 +15,9 @@ export interface WarningInputs {
   samplesPerLinewidth: number
   gouyRad: number
   linewidthFsr: number
+  /** The assignment's placement tolerance, FSR. Not read here any more (degeneracy uses the linewidth); kept until the caller drops it. */
   toleranceFsr: number
+  /** Not read here any more; kept until the caller drops it. */
   model: CavityModel
   orders: Record<string, number>
   /** RMS distance of the matched carriers from their predicted places, FSR units (null without a calibration). */
@@ -42,11 +44,25 @@ export const SWEEP_SPEED_RINGING = 0.15
 
 /** Highest order checked for degeneracy warnings (higher ones rarely carry power worth a warning). */
 const DEGENERACY_MAX_ORDER = 6
+/**
+ * Two lines closer than this many linewidths (FWHM) overlap too much to share their power out reliably: at 3 FWHM a
+ * Lorentzian still has 3 % of its height at its neighbour's centre, at 1 FWHM 20 % (Born & Wolf, "Principles of
+ * Optics", §7.6, for the line shape; the threshold is common practice).
+ */
+const DEGENERATE_LINEWIDTHS = 3
+/** A merged pair of orders matters when it carries at least this share of the power (common practice). */
+const DEGENERATE_MIN_SHARE = 0.005
+/**
+ * An unassigned resonance within this many linewidths of an assigned one is taken as its fragment or fine structure
+ * (a resonance found twice, an astigmatic split, a ringing lobe, a sideband) rather than an order the geometry misses
+ * (common practice: such structure sits within a few linewidths of its line).
+ */
+const FRAGMENT_LINEWIDTHS = 5
 
 /** The findings that qualify the result, each with a stable code (see the result's `warnings`). */
 export function collectWarnings(input: WarningInputs): EngineWarning[] {
   const w: EngineWarning[] = []
-  const { measured, labels, fundamentals } = input
+  const { measured, fundamentals } = input
   if (!(input.samplesPerLinewidth >= 6)) {
     w.push({
       code: 'undersampled',
@@ -55,13 +71,14 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
   }
   const saturated = saturation(input.part, measured, input.quantumV, input.sigmaV)
   if (saturated) w.push({ code: 'saturated', message: saturated })
-  if (fundamentals.length < 2) {
+  const fundamentalCount = distinctFundamentals(input)
+  if (fundamentalCount < 2) {
     w.push({
       code: 'single_fundamental',
       message: 'Fewer than two TEM00 resonances in the sweep: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. The TEM00 fraction is only TEM00 power against all resonance power seen, a rough figure. Sweep over more than one FSR.',
     })
   }
-  if (fundamentals.length === 2) {
+  if (fundamentalCount === 2) {
     const spread = input.orderResidualRmsFsr !== null && input.orderResidualRmsFsr > 0 ? ` by about ±${Math.max(input.orderResidualRmsFsr, 1e-4).toFixed(4)} FSR` : ''
     w.push({
       code: 'two_fundamentals',
@@ -119,14 +136,74 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
       })
     }
   }
-  const unassigned = labels.filter((l) => l.kind === 'unassigned').length
-  if (unassigned >= 3 && unassigned > 0.2 * labels.length) {
-    w.push({
-      code: 'many_unassigned',
-      message: `${unassigned} of ${labels.length} resonances match no predicted order: check the cavity length and mirror radii (or a second laser mode / modulation frequency).`,
-    })
-  }
+  const unassigned = unassignedWarning(input)
+  if (unassigned) w.push({ code: 'many_unassigned', message: unassigned })
   return w
+}
+
+/**
+ * TEM00 resonances in the record: those the calibration used, and those the assignment labelled order 0 that stand
+ * at least half as tall as the calibration's (one laser feeds every TEM00 of a sweep alike; a short line labelled 0 at
+ * the edge of the sweep is more likely a transverse order read one place off), where two within FRAGMENT_LINEWIDTHS of
+ * each other are one resonance found twice. Counting the calibration's list alone misses a TEM00 it left out and
+ * counts a split one twice.
+ */
+function distinctFundamentals(input: WarningInputs): number {
+  const { measured, labels, fundamentals } = input
+  const members = new Set(fundamentals.filter((k) => k >= 0 && k < measured.length))
+  const heights = [...members].map((k) => measured[k].heightV).sort((a, b) => a - b)
+  const typical = heights.length ? heights[heights.length >> 1] : 0
+  labels.forEach((l, i) => {
+    if (l.kind === 'carrier' && l.order === 0 && measured[i].heightV >= 0.5 * typical) members.add(i)
+  })
+  const centres = [...members].map((k) => measured[k].centerIndex).sort((a, b) => a - b)
+  const reach = FRAGMENT_LINEWIDTHS * linewidthSamples(input)
+  let count = 0
+  let last = -Infinity
+  for (const c of centres) {
+    if (c - last > reach) count++
+    last = c
+  }
+  return count
+}
+
+/** The TEM00 linewidth in samples (the median of the resonances' widths when it is unknown). */
+function linewidthSamples(input: WarningInputs): number {
+  if (input.samplesPerLinewidth > 0 && Number.isFinite(input.samplesPerLinewidth)) return input.samplesPerLinewidth
+  const widths = input.measured.map((m) => m.fwhmSamples).filter((x) => x > 0).sort((a, b) => a - b)
+  return widths.length ? widths[widths.length >> 1] : 1
+}
+
+/**
+ * Many resonances that match no order: say what they likely are from where they sit. Beside an assigned resonance
+ * (within FRAGMENT_LINEWIDTHS) they are pieces of it — a resonance found twice, split lines (astigmatism), ringing or
+ * a dither — and the geometry is not to blame; far from every assigned one they are resonances the predicted places
+ * miss: a wrong length or radius, a second laser mode or a modulation frequency.
+ */
+function unassignedWarning(input: WarningInputs): string | null {
+  const { measured, labels } = input
+  const unassigned = labels.flatMap((l, i) => (l.kind === 'unassigned' ? [i] : []))
+  if (!(unassigned.length >= 3 && unassigned.length > 0.2 * labels.length)) return null
+  const assigned = labels.flatMap((l, i) => (l.kind !== 'unassigned' ? [i] : []))
+  const fallback = linewidthSamples(input)
+  let beside = 0
+  for (const u of unassigned) {
+    const near = assigned.some((a) => {
+      // The assigned line's own width holds the local sweep rate; the TEM00 width stands in when it has none.
+      const width = measured[a].fwhmSamples > 0 ? Math.max(measured[a].fwhmSamples, fallback) : fallback
+      return Math.abs(measured[u].centerIndex - measured[a].centerIndex) <= FRAGMENT_LINEWIDTHS * width
+    })
+    if (near) beside++
+  }
+  const far = unassigned.length - beside
+  const head = `${unassigned.length} of ${labels.length} resonances match no predicted order`
+  if (far === 0 || beside >= 2 * far) {
+    return `${head}; ${beside === unassigned.length ? 'all' : `${beside}`} sit within ${FRAGMENT_LINEWIDTHS} linewidths of an assigned resonance: they are likely fragments or fine structure of it (a resonance found twice, lines split by astigmatism, ringing or a laser dither), not orders the geometry misses. The shares count the assigned resonances; look at those resonances' shapes rather than at the cavity length and radii.`
+  }
+  if (beside === 0 || far >= 2 * beside) {
+    return `${head} and ${far === unassigned.length ? 'none' : `only ${beside}`} sit${beside === 1 ? 's' : ''} beside an assigned resonance: they stand where no order is predicted. Check the cavity length and mirror radii (or a second laser mode, or the modulation frequency).`
+  }
+  return `${head}: ${beside} sit within ${FRAGMENT_LINEWIDTHS} linewidths of an assigned resonance (likely fragments or fine structure of it), ${far} stand where no order is predicted (check the cavity length and mirror radii, or a second laser mode / modulation frequency).`
 }
 
 /**
@@ -216,28 +293,34 @@ function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV:
   return `${clipped} resonance(s) are cut flat at the top value (${top.toPrecision(4)} V): up to ${longest} samples in a row hold it, where an unclipped line of that width would stay within one step of its top for about ${Math.max(1, Math.round(expectedAtLongest))}. The detector or digitiser is likely saturated, so the tallest resonances read low and the TEM00 fraction low. Reduce the gain or the vertical scale.`
 }
 
+/**
+ * Orders that share a place on the FSR circle: order N sits N·ψ/π (mod 1) FSR above TEM00 (Siegman, "Lasers" (1986),
+ * ch. 19). A pair matters when its lines stand within DEGENERATE_LINEWIDTHS linewidths at the measured finesse and it
+ * carries power or could: TEM00 always (it could hide the other order's power), else when the pair's reported shares
+ * reach DEGENERATE_MIN_SHARE.
+ */
 function degeneracy(input: WarningInputs): string | null {
   const offsets = predictOrderOffsets(input.gouyRad, DEGENERACY_MAX_ORDER)
-  const limit = Math.max(3 * input.linewidthFsr, input.toleranceFsr)
-  const pairs: string[] = []
+  const linewidthFsr = input.linewidthFsr
+  if (!(linewidthFsr > 0)) return null
+  const share = (order: number) => input.orders[String(order)] ?? 0
+  const pairs: { a: number; b: number; apartFsr: number }[] = []
   for (let a = 0; a <= DEGENERACY_MAX_ORDER; a++) {
     for (let b = a + 1; b <= DEGENERACY_MAX_ORDER; b++) {
       const d = Math.abs(offsets[a] - offsets[b])
-      if (Math.min(d, 1 - d) <= limit) pairs.push(`${a} and ${b}`)
+      const apartFsr = Math.min(d, 1 - d)
+      if (apartFsr > DEGENERATE_LINEWIDTHS * linewidthFsr) continue
+      if (a !== 0 && share(a) + share(b) < DEGENERATE_MIN_SHARE) continue
+      pairs.push({ a, b, apartFsr })
     }
   }
-  // Near a stability edge every second order piles up beside TEM00 and beside its half-FSR point.
-  const cluster = Math.abs((2 * input.gouyRad) / Math.PI - Math.round((2 * input.gouyRad) / Math.PI))
-  const nearEdge = cluster < 0.1 && cluster > limit
-  if (pairs.length === 0 && !nearEdge) return null
-  const parts: string[] = []
-  if (pairs.length > 0) parts.push(`Transverse orders ${pairs.join(', ')} fall within ${limit.toFixed(3)} FSR of each other and cannot be separated: their power is reported merged into the lower order.`)
-  if (nearEdge) {
-    parts.push(
-      `The cavity is near a stability edge (g1·g2 = ${(input.model.g1 * input.model.g2).toFixed(3)}): successive even and odd orders are only ${cluster.toFixed(3)} FSR apart and crowd beside each TEM00 resonance, so the order shares and the TEM00 fraction are not reliable.`,
-    )
-  }
-  return parts.join(' ')
+  if (pairs.length === 0) return null
+  // Closest first; pairs equally far apart (to 1e-6 FSR) in order of their lower member.
+  pairs.sort((x, y) => Math.round(1e6 * (x.apartFsr - y.apartFsr)) || x.a - y.a || x.b - y.b)
+  const shown = pairs.slice(0, 4).map((p) => `${p.a} and ${p.b} (${(p.apartFsr / linewidthFsr).toFixed(1)} linewidths, ${p.apartFsr.toPrecision(2)} FSR)`)
+  const more = pairs.length > shown.length ? ` and ${pairs.length - shown.length} more pair(s)` : ''
+  const finesse = 1 / linewidthFsr
+  return `Transverse orders ${shown.join(', ')}${more} stand within ${DEGENERATE_LINEWIDTHS} linewidths of each other at the measured finesse (${finesse.toFixed(0)}; order N sits N·ψ/π FSR above TEM00 with ψ/π = ${(input.gouyRad / Math.PI).toFixed(4)}): their lines overlap and their powers cannot be told apart, so the share given to the lower order of each pair may hold the other's power too${pairs.some((p) => p.a === 0) ? ', and the TEM00 fraction may include a transverse order' : ''}. A cavity length a little farther from this degeneracy separates them.`
 }
 
 function leadingLobeIsTallest(signal: Float64Array, m: MeasuredResonance): boolean {
