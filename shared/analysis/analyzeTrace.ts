@@ -34,6 +34,16 @@ import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 const MAX_ORDER = 10
 /** Orders always measured at their predicted places, detected or not (the ones that tell the mode-match). */
 const ALWAYS_MEASURED_ORDERS = 4
+/**
+ * … and up to this order when the beam is far from matched (the reading puts less than 80 % in TEM00): a badly
+ * misaligned or mismatched beam spreads its power over many orders, each below the noise in one FSR but together
+ * worth points of the fraction (a misalignment's Poisson tail; Anderson, Appl. Opt. 23, 2944 (1984), from memory).
+ */
+const POOR_MATCH_MEASURED_ORDERS = 8
+/** A peak is labelled on its own when its height stands this many σ above the noise (5σ, common practice). */
+const LABEL_SIGNIFICANCE = 5
+/** … or this many σ when its order is reported (the matched filter over all FSRs finds it). */
+const REPORT_SIGNIFICANCE_PEAK = 3
 /** A reading's mirror image must cost this much more (in units of the tallest resonance's height) to settle the direction. */
 const DIRECTION_COST = 0.03
 
@@ -92,7 +102,10 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   // Periodic fast structure after each resonance (a detector that rings) is folded into the resonance it follows:
   // its lobes are no resonances of the cavity and must never be read as a comb.
   const found = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
-  const structure = foldFastStructure(found.map((m) => ({ tSeconds: tOf(m), heightV: m.heightV, widthSeconds: m.fwhmSamples * dt })), { sigmaV })
+  // (Spike trains of a dither were recognised among the tall resonances already and are measured by area.)
+  const structure = tall.spikeTrains
+    ? { ownerOf: new Map<number, number>(), periodSeconds: null, kind: null }
+    : foldFastStructure(found.map((m) => ({ tSeconds: tOf(m), heightV: m.heightV, widthSeconds: m.fwhmSamples * dt })), { sigmaV })
   const measured = structure.ownerOf.size ? foldLobes(found, structure.ownerOf) : found
 
   // 5. Reading: which family is TEM00, the sweep direction and the Gouy phase, from the whole pattern (any family
@@ -173,7 +186,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       )
     // ψ is refined only when three or more TEM00 resonances pin the sweep: with two, a bend of the sweep and a
     // change of ψ move the transverse modes alike and cannot be told apart.
-    const pinned = comb.members.length >= 3 || (reading !== null && reading.calibratingLinks >= 3)
+    const pinned = comb.members.length >= 3 || (reading !== null && reading.calibratingLinks >= 2)
     const maxShift = pinned ? 0.03 * readingGouy : 0
     const assignAndRefine = (directions: ('up' | 'down')[]) => {
       let cal = firstCalibration
@@ -237,14 +250,16 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const countedSpan = calibration ? windowOf(calibration, direction === 'down' ? 'down' : 'up', gouy) : null
   const window = countedSpan && countedSpan.lastIndex > countedSpan.firstIndex ? { first: countedSpan.firstIndex, last: countedSpan.lastIndex } : null
   const fastStructure = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3)
-  const ordersMeasured = measuredOrders(families.leaders, labels)
+  // (With areas, each extra order adds the noise of its whole window: only heights afford the far orders.)
+  const poorMatch = reading !== null && reading.roughFraction < 0.8 && samplesPerLinewidth >= 6 && !fastStructure
+  const ordersMeasured = measuredOrders(families.leaders, labels, poorMatch ? POOR_MATCH_MEASURED_ORDERS : ALWAYS_MEASURED_ORDERS)
   let shares = calibration && finesse && window
     ? measureOrderShares({
         signal, raw: part, darkLevelV, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
         orders: ordersMeasured,
         // Splits of up to 8 linewidths (at most 0.01 FSR) between neighbouring lines of an order are looked for.
-        splitReachFsr: (Math.min(8 / finesse.value, 0.01) * Math.max(...ordersMeasured)) / 2,
+        splitReachFsr: (Math.min(8 / finesse.value, 0.01) * Math.max(...ordersMeasured.filter((order) => order <= ALWAYS_MEASURED_ORDERS))) / 2,
         detected: measured
           .map((m, i) => ({ nu: positions[i], order: labels[i].kind === 'carrier' ? labels[i].order : null, heightV: m.heightV }))
           .filter((d): d is { nu: number; order: number; heightV: number } => d.order !== null && Number.isFinite(d.nu)),
@@ -273,9 +288,18 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     : null
   if (ringdown) finesse = ringdown
 
+  // A peak is shown with an order only when it stands out on its own (5σ, common practice for a single detection
+  // among many samples) or its order stands out over all FSRs (reported by the line model) and the peak by 3σ:
+  // a noise peak that happens to sit near a predicted place stays unassigned.
+  const labelStands = (i: number) => {
+    const l = labels[i]
+    if (l.kind === 'unassigned' || l.order === null || isFundamental.has(i)) return true
+    const snr = measured[i].heightV / sigmaV
+    return snr >= LABEL_SIGNIFICANCE || (snr >= REPORT_SIGNIFICANCE_PEAK && String(l.order) in orders)
+  }
   const peaks: AnalysisPeak[] = measured.flatMap((m, i) => {
     if (lobes.has(i)) return []
-    const l = labels[i]
+    const l: OrderLabel = labelStands(i) ? labels[i] : { kind: 'unassigned', order: null, residualFsr: NaN }
     return {
       t: tOf(m),
       order: l.kind === 'unassigned' ? null : l.order,
@@ -330,9 +354,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       fundamentals: comb.members,
       samplesPerLinewidth,
       gouyRad: gouy,
-      linewidthFsr,
-      toleranceFsr,
-      model,
+      linewidthFsr: shares.finesse ? 1 / shares.finesse : linewidthFsr,
+      resolutionFsr: calibration ? (3 * dt) / Math.abs(calibration.fsrSeconds) : 0,
       orders,
       orderResidualRmsFsr: orderResidual,
       sweepSpeed: sweepSpeed?.speed ?? null,
@@ -397,9 +420,9 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
 }
 
 /** Orders measured at their predicted places: the low ones always, higher ones when a resonance was matched to them. */
-function measuredOrders(leaders: number[], labels: OrderLabel[]): number[] {
+function measuredOrders(leaders: number[], labels: OrderLabel[], always: number): number[] {
   const seen = new Set(labels.filter((l) => l.kind === 'carrier' && l.order !== null).map((l) => l.order!))
-  return leaders.filter((order) => order <= ALWAYS_MEASURED_ORDERS || seen.has(order))
+  return leaders.filter((order) => order <= always || seen.has(order))
 }
 
 /**

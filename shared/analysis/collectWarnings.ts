@@ -1,4 +1,3 @@
-import type { CavityModel } from '../cavity'
 import type { EngineWarning } from '../errors'
 import type { MeasuredResonance } from '../peaks/measureResonances'
 import type { OrderLabel } from '../orders/assignOrders'
@@ -15,10 +14,8 @@ export interface WarningInputs {
   samplesPerLinewidth: number
   gouyRad: number
   linewidthFsr: number
-  /** The assignment's placement tolerance, FSR. Not read here any more (degeneracy uses the linewidth); kept until the caller drops it. */
-  toleranceFsr: number
-  /** Not read here any more; kept until the caller drops it. */
-  model: CavityModel
+  /** Three samples on the calibrated axis, FSR: lines closer than the sampling resolves cannot be told apart either. */
+  resolutionFsr: number
   orders: Record<string, number>
   /** RMS distance of the matched carriers from their predicted places, FSR units (null without a calibration). */
   orderResidualRmsFsr: number | null
@@ -301,7 +298,9 @@ function saturation(part: Float64Array, measured: MeasuredResonance[], quantumV:
  */
 function degeneracy(input: WarningInputs): string | null {
   const offsets = predictOrderOffsets(input.gouyRad, DEGENERACY_MAX_ORDER)
-  const linewidthFsr = input.linewidthFsr
+  // An undersampled record resolves no better than a few samples, whatever the finesse.
+  const resolved = input.resolutionFsr > input.linewidthFsr
+  const linewidthFsr = Math.max(input.linewidthFsr, input.resolutionFsr)
   if (!(linewidthFsr > 0)) return null
   const share = (order: number) => input.orders[String(order)] ?? 0
   const pairs: { a: number; b: number; apartFsr: number }[] = []
@@ -317,10 +316,10 @@ function degeneracy(input: WarningInputs): string | null {
   if (pairs.length === 0) return null
   // Closest first; pairs equally far apart (to 1e-6 FSR) in order of their lower member.
   pairs.sort((x, y) => Math.round(1e6 * (x.apartFsr - y.apartFsr)) || x.a - y.a || x.b - y.b)
-  const shown = pairs.slice(0, 4).map((p) => `${p.a} and ${p.b} (${(p.apartFsr / linewidthFsr).toFixed(1)} linewidths, ${p.apartFsr.toPrecision(2)} FSR)`)
+  const shown = pairs.slice(0, 4).map((p) => `${p.a} and ${p.b} (${(p.apartFsr / linewidthFsr).toFixed(1)} ${resolved ? 'steps' : 'linewidths'}, ${p.apartFsr.toPrecision(2)} FSR)`)
   const more = pairs.length > shown.length ? ` and ${pairs.length - shown.length} more pair(s)` : ''
   const finesse = 1 / linewidthFsr
-  return `Transverse orders ${shown.join(', ')}${more} stand within ${DEGENERATE_LINEWIDTHS} linewidths of each other at the measured finesse (${finesse.toFixed(0)}; order N sits N·ψ/π FSR above TEM00 with ψ/π = ${(input.gouyRad / Math.PI).toFixed(4)}): their lines overlap and their powers cannot be told apart, so the share given to the lower order of each pair may hold the other's power too${pairs.some((p) => p.a === 0) ? ', and the TEM00 fraction may include a transverse order' : ''}. A cavity length a little farther from this degeneracy separates them.`
+  return `Transverse orders ${shown.join(', ')}${more} stand within ${DEGENERATE_LINEWIDTHS} ${resolved ? 'resolution steps (three samples each: the record is sampled more coarsely than the linewidth)' : 'linewidths'} of each other at the measured finesse (${finesse.toFixed(0)}; order N sits N·ψ/π FSR above TEM00 with ψ/π = ${(input.gouyRad / Math.PI).toFixed(4)}): their lines overlap and their powers cannot be told apart, so the share given to the lower order of each pair may hold the other's power too${pairs.some((p) => p.a === 0) ? ', and the TEM00 fraction may include a transverse order' : ''}. A cavity length a little farther from this degeneracy separates them.`
 }
 
 function leadingLobeIsTallest(signal: Float64Array, m: MeasuredResonance): boolean {

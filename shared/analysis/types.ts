@@ -24,7 +24,7 @@ export const analysisPeakSchema = z.object({
 /** One order as the line model measured it, whether or not it stands out of the noise. */
 export const orderEstimateSchema = z.object({
   order: z.number().int(),
-  /** Share of the total carrier power (noise can make it slightly negative for an empty order). */
+  /** Share of the total carrier power; an estimate that noise pushed below zero reads 0 (its significance keeps the sign). */
   share: z.number(),
   /** Standard error of the share, from the fit's covariance. */
   shareError: z.number().nullable(),
@@ -56,8 +56,8 @@ export const analysisResultSchema = z.object({
   orders: z.record(z.string(), z.number()),
   /**
    * Summed share of the orders measured at their predicted places that do not stand out of the noise. They are
-   * counted in the total so that leaving them out does not raise the TEM00 fraction; noise can make it slightly
-   * negative. Absent in results stored before it was reported.
+   * counted in the total so that leaving them out does not raise the TEM00 fraction (an estimate below zero counts
+   * as zero). Absent in results stored before it was reported.
    */
   belowNoiseShare: z.number().optional(),
   /** Every order measured at its predicted places, with its error; empty when shares come from the peaks found. Absent in older results. */

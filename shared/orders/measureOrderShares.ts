@@ -152,14 +152,15 @@ export function measureOrderShares(input: ShareInputs): Shares {
     return order === 0 ? s.value > 0 : s.value > 0 && (significant(s.heightSum, s.heightVariance) || significant(s.value, s.variance))
   })
   // The total counts every order measured, reported or not: leaving out the orders below the noise would push the
-  // TEM00 fraction up by their power (their estimates average to their true power, zero for an empty order).
+  // TEM00 fraction up by their power. A power cannot be negative: an estimate that noise pushed below zero counts as
+  // zero, so that it never raises the TEM00 fraction (common practice; it costs the empty orders a small bias up).
   let total = 0
-  for (const order of input.orders) total += sums.get(order)!.value
+  for (const order of input.orders) total += Math.max(0, sums.get(order)!.value)
   if (!(sums.get(0)!.value > 0) || !(total > 0)) throw new EngineError('no_resonances', 'No carrier resonance could be measured in the selected sweep')
   const orders: Record<string, number> = {}
   for (const order of reported) orders[String(order)] = sums.get(order)!.value / total
   let belowNoise = 0
-  for (const order of input.orders) if (!reported.includes(order)) belowNoise += sums.get(order)!.value / total
+  for (const order of input.orders) if (!reported.includes(order)) belowNoise += Math.max(0, sums.get(order)!.value) / total
   const fundamentalFraction = Math.min(1, orders['0'] ?? 0)
   // First-order error propagation of P_N / Σ P (Bevington & Robinson, "Data Reduction and Error Analysis", §3.2):
   // with heights, through the full covariance of the line heights (the slow background they share correlates
@@ -182,7 +183,8 @@ export function measureOrderShares(input: ShareInputs): Shares {
     const s = sums.get(order)!
     return {
       order,
-      share: s.value / total,
+      // Clamped like the total (a negative power reads 0); the significance keeps the sign the fit gave.
+      share: Math.max(0, s.value) / total,
       shareError: shareError(order),
       significance: s.variance > 0 ? s.value / Math.sqrt(s.variance) : null,
       reported: reported.includes(order),

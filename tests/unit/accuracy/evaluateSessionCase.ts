@@ -9,6 +9,8 @@ export interface SessionOutcome {
   k: number
   effect: SessionCase['effect']
   truthFraction: number
+  /** TEM00 resonances of the truth inside the main sweep. */
+  truthTem00Count: number
   /** Null when the analysis refused the trace (its error code in `refusal`). */
   foundFraction: number | null
   refusal: string | null
@@ -19,6 +21,10 @@ export interface SessionOutcome {
   finesseError: number
   /** Labels standing where the truth has no line of that order (carrier peaks with an order that no true line explains). */
   labelsOnNothing: number
+  /** Labels on a real line of another order. */
+  mislabels: number
+  /** Resonances labelled with an order ≥ 1 (the ones that measure the Gouy phase). */
+  transverseLabels: number
   warnings: string[]
   /** True when the result warns that its reading may be wrong (`ambiguous_reading`, `geometry_mismatch`, …). */
   flagged: boolean
@@ -46,9 +52,15 @@ export function evaluateSessionCase(k: number, c: SessionCase): SessionOutcome {
   const fsrError = result ? fsrErrorOf(result, truth.peaks) : NaN
   const finesseError = result?.finesse ? Math.abs(result.finesse / truth.finesse - 1) : NaN
   const linewidthSeconds = truth.sweepMeanFsrSeconds / truth.finesse
-  const labelsOnNothing = result
-    ? result.peaks.filter((p) => p.kind === 'carrier' && p.order !== null && !truth.peaks.some((t) => t.kind === 'carrier' && t.order === p.order && Math.abs(t.t - p.t) < Math.max(5 * linewidthSeconds, 0.01 * truth.sweepMeanFsrSeconds))).length
-    : 0
+  // A label on a real line of another order (orders that share a place, or a wrong reading) is a mislabel; a label
+  // where the truth has no line at all is a label on nothing.
+  const near = (p: { t: number }, t: SimulatedPeakTruth) => Math.abs(t.t - p.t) < Math.max(5 * linewidthSeconds, 0.01 * truth.sweepMeanFsrSeconds)
+  // Only the main sweep, less 0.02 FSR at each end: the truth lists no resonance crossed during a flyback or past a
+  // turn of the ramp, whose flank may reach into the sweep.
+  const labelled = result ? result.peaks.filter((p) => p.kind === 'carrier' && p.order !== null && p.t >= truth.sweepStartSeconds + 0.02 * truth.sweepMeanFsrSeconds && p.t <= truth.sweepEndSeconds - 0.02 * truth.sweepMeanFsrSeconds) : []
+  const labelsOnNothing = labelled.filter((p) => !truth.peaks.some((t) => near(p, t))).length
+  const mislabels = labelled.filter((p) => truth.peaks.some((t) => near(p, t)) && !truth.peaks.some((t) => near(p, t) && t.kind === 'carrier' && t.order === p.order)).length
+  const transverseLabels = labelled.filter((p) => (p.order ?? 0) > 0).length
   const warnings = result?.warnings.map((w) => w.code) ?? []
   const implied = result?.warnings.find((w) => w.code === 'geometry_mismatch')?.message.match(/([0-9.]+) mm/)
   const impliedLengthMm = implied ? Number(implied[1]) : null
@@ -69,10 +81,11 @@ export function evaluateSessionCase(k: number, c: SessionCase): SessionOutcome {
     Number.isFinite(errorPoints) ? errorPoints.toFixed(2) : '-',
     Number.isFinite(fsrError) ? (100 * fsrError).toFixed(3) : '-',
     Number.isFinite(finesseError) ? (100 * finesseError).toFixed(1) : '-',
-    labelsOnNothing,
+    `${labelsOnNothing} / ${mislabels}`,
     warnings.join(' ') || '-',
   ].join(' | ')
-  return { k, effect: c.effect, truthFraction: truth.fundamentalFraction, foundFraction: found, refusal, errorPoints, fsrError, finesseError, labelsOnNothing, warnings, flagged, impliedLengthMm, row: `| ${row} |` }
+  const truthTem00Count = truth.peaks.filter((p) => p.kind === 'carrier' && p.order === 0).length
+  return { k, effect: c.effect, truthFraction: truth.fundamentalFraction, truthTem00Count, foundFraction: found, refusal, errorPoints, fsrError, finesseError, labelsOnNothing, mislabels, transverseLabels, warnings, flagged, impliedLengthMm, row: `| ${row} |` }
 }
 
 /**
@@ -97,6 +110,6 @@ function fsrErrorOf(result: AnalysisResult, peaks: SimulatedPeakTruth[]): number
 }
 
 export const SESSION_TABLE_HEADER = [
-  '| case | effect | Gouy | samples | finesse | FSRs | samples/linewidth | ramp | direction | truth shares % | found f0 | error (points) | FSR error % | finesse error % | labels on nothing | warnings |',
+  '| case | effect | Gouy | samples | finesse | FSRs | samples/linewidth | ramp | direction | truth shares % | found f0 | error (points) | FSR error % | finesse error % | labels on nothing / on another order’s line | warnings |',
   '|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|',
 ]
