@@ -13,6 +13,11 @@ export function frac(x: number): number {
   return x - Math.floor(x)
 }
 
+/** Signed distance to the nearest whole number, in [−0.5, 0.5) (a place mod 1 FSR). */
+export function signedCircular(d: number): number {
+  return d - Math.round(d)
+}
+
 /** One decimal for messages, 'n/a' when not finite. */
 export function fmt(x: number): string {
   return Number.isFinite(x) ? x.toFixed(1) : 'n/a'
