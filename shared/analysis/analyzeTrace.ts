@@ -253,8 +253,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   // (With areas, each extra order adds the noise of its whole window: only heights afford the far orders.)
   const poorMatch = reading !== null && reading.roughFraction < 0.8 && samplesPerLinewidth >= 6 && !fastStructure
   const ordersMeasured = measuredOrders(families.leaders, labels, poorMatch ? POOR_MATCH_MEASURED_ORDERS : ALWAYS_MEASURED_ORDERS)
-  let shares = calibration && finesse && window
-    ? measureOrderShares({
+  const lineModel = (calibration: SweepCalibration, finesse: { value: number }, window: { first: number; last: number }) => measureOrderShares({
         signal, raw: part, darkLevelV, sigmaV, calibration, direction: direction === 'down' ? 'down' : 'up', gouy, finesse: finesse.value,
         sidebands: sidebandOffsetFsr && shapes.length ? { offsetFsr: sidebandOffsetFsr, ratio: median(shapes.map((s) => s.sidebandRatio)) } : null,
         orders: ordersMeasured,
@@ -264,11 +263,15 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
           .map((m, i) => ({ nu: positions[i], order: labels[i].kind === 'carrier' ? labels[i].order : null, heightV: m.heightV }))
           .filter((d): d is { nu: number; order: number; heightV: number } => d.order !== null && Number.isFinite(d.nu)),
         placementToleranceFsr: Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)),
-        firstIndex: window!.first, lastIndex: window!.last,
+        firstIndex: window.first, lastIndex: window.last,
         startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
       })
-    : fundamentalOnlyShares(measured, comb.members)
+  let shares = calibration && finesse && window ? measureOrSkip(() => lineModel(calibration!, finesse!, window)) : null
+  // The line model may find no TEM00 power where the reading put it (a reading gone wrong): the resonances found
+  // are then counted one by one, and the doubt is reported below.
+  const lineModelFailed = calibration !== null && finesse !== null && window !== null && shares === null
+  if (!shares) shares = (calibration && window && peakAreaShares(measured, labels, positions, calibration, [window.first, window.last], toleranceFsr, dt, tOf)) || fundamentalOnlyShares(measured, comb.members)
   if (calibration && shares.reducedChiSquare !== null && shares.reducedChiSquare > MAX_MODEL_CHI_SQUARE) {
     // The lines do not follow one shared shape (split, ringing or distorted resonances, a poorly followed sweep):
     // fall back to the integrated power of each resonance found, wherever it sits.
@@ -322,6 +325,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     measuredGouyRad: calibration && gouyFromData ? gouy : null,
     transverseCount: labels.filter((l) => l.kind === 'carrier' && l.order !== null && l.order > 0).length,
     directionGiven: options.sweepDirection !== undefined,
+    unassignedHeightShare: lineModelFailed ? 1 : unassignedShareOf(peaks),
+    lineModelChiSquare: shares.reducedChiSquare,
   })
   const warnings: EngineWarning[] = [
     ...trace.warnings,
@@ -411,6 +416,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       peakCount: peaks.length,
       orderResidualRmsFsr: orderResidual,
       lineModelReducedChiSquare: shares.reducedChiSquare,
+      readingCost: reading?.cost ?? null,
     },
     samplesPerLinewidth: Number.isFinite(samplesPerLinewidth) ? samplesPerLinewidth : null,
     noise: { sigmaV, darkLevelV },
@@ -436,6 +442,27 @@ function fsrOnTimeAxis(calibration: SweepCalibration | null, fundamentalTimes: n
     return { seconds: local, meanSpacingSeconds: local, spacingRangeSeconds: [local, local] }
   }
   return { seconds: calibration.fsrSeconds, meanSpacingSeconds: calibration.meanSpacingSeconds, spacingRangeSeconds: calibration.spacingRangeSeconds }
+}
+
+/** The line model's shares, or null when it finds no TEM00 power to measure (other errors propagate). */
+function measureOrSkip<T>(measure: () => T): T | null {
+  try {
+    return measure()
+  } catch (error) {
+    if (error instanceof EngineError && error.code === 'no_resonances') return null
+    throw error
+  }
+}
+
+/** Height of the unassigned peaks over the height of all peaks listed (0 with none). */
+function unassignedShareOf(peaks: AnalysisPeak[]): number {
+  let all = 0
+  let unassigned = 0
+  for (const p of peaks) {
+    all += Math.max(0, p.height)
+    if (p.kind === 'unassigned') unassigned += Math.max(0, p.height)
+  }
+  return all > 0 ? unassigned / all : 0
 }
 
 /** The resonances less the lobes of fast structure, each lobe's area added to the resonance it follows. */

@@ -113,6 +113,12 @@ export const analysisResultSchema = z.object({
     orderResidualRmsFsr: z.number().nullable(),
     /** Reduced χ² of the model of every line at its predicted place with the shared linewidth (null without one). */
     lineModelReducedChiSquare: z.number().nullable(),
+    /**
+     * What the chosen reading of the spectrum leaves unexplained, in units of the tallest resonance's height
+     * (resonances no order explains, lines missing where an order should repeat, implausible order powers); 0 is a
+     * perfect account. Null without a reading; absent in older results.
+     */
+    readingCost: z.number().nullable().optional(),
   }),
   samplesPerLinewidth: z.number().nullable(),
   noise: z.object({ sigmaV: z.number(), darkLevelV: z.number() }),

@@ -3,7 +3,7 @@ import type { SweepCalibration } from '../calibration/calibrateSweep'
 import { EngineError } from '../errors'
 import { goldenSectionMinimum } from '../fit/goldenSectionMinimum'
 import { parabolicMinimum } from '../fit/parabolicMinimum'
-import { fitOrderPowers } from './fitOrderPowers'
+import { fitOrderPowers, type PredictedLine } from './fitOrderPowers'
 import { lineProblem, orderHeightSums, SUPPORT_LINEWIDTHS } from './lineProblem'
 import { searchSplit, splitLines, transverseMisfit } from './searchSplit'
 
@@ -190,7 +190,13 @@ export function measureOrderShares(input: ShareInputs): Shares {
       reported: reported.includes(order),
     }
   })
-  const fundamentalError = orderEstimates.find((e) => e.order === 0)!.shareError
+  // The scatter between FSR periods holds what the fit's covariance cannot: input power or laser modes changing from
+  // one period to the next. With two or more whole periods, when the periods scatter more than the noise allows
+  // (their variance against the covariance's, above the 95 % point of χ²/ν), the standard error of their mean
+  // fraction (Bevington & Robinson, §4.1) is the stated error.
+  const covarianceError = orderEstimates.find((e) => e.order === 0)!.shareError
+  const scatter = periodScatterError(lines, (j) => Math.max(0, useHeight ? fit.lines[j].heightV : fit.lines[j].areaHeightV), input.firstIndex, input.direction)
+  const fundamentalError = scatter !== null && scatter.error ** 2 > chiSquare95PerDegree(scatter.periods - 1) * covarianceError ** 2 ? scatter.error : covarianceError
   const tolerance = Math.max(3 / finesse, 0.005)
   return {
     orders,
@@ -211,4 +217,34 @@ export function measureOrderShares(input: ShareInputs): Shares {
       return 0
     },
   }
+}
+
+/**
+ * Standard error of the TEM00 fraction from its scatter between whole FSR periods: the fraction of each period
+ * (TEM00 over all counted lines in it), their standard deviation over √periods. Null with fewer than two periods.
+ */
+function periodScatterError(lines: PredictedLine[], measureOf: (j: number) => number, firstIndex: number, direction: 'up' | 'down'): { error: number; periods: number } | null {
+  const periods = new Map<number, { fundamental: number; all: number }>()
+  lines.forEach((line, j) => {
+    if (!line.counted) return
+    const offset = direction === 'up' ? line.nu - firstIndex : firstIndex - line.nu
+    // A TEM00 line moved to where its resonance was found may sit a hair below its whole number.
+    const period = Math.floor(offset + 0.005)
+    const p = periods.get(period) ?? { fundamental: 0, all: 0 }
+    const v = measureOf(j)
+    p.all += v
+    if (line.order === 0) p.fundamental += v
+    periods.set(period, p)
+  })
+  const fractions = [...periods.values()].filter((p) => p.all > 0).map((p) => p.fundamental / p.all)
+  if (fractions.length < 2) return null
+  const mean = fractions.reduce((a, b) => a + b, 0) / fractions.length
+  const variance = fractions.reduce((a, f) => a + (f - mean) ** 2, 0) / (fractions.length - 1)
+  return { error: Math.sqrt(variance / fractions.length), periods: fractions.length }
+}
+
+/** The 95 % point of χ²/ν for ν degrees of freedom (Wilson & Hilferty, Proc. Natl. Acad. Sci. 17, 684 (1931)). */
+function chiSquare95PerDegree(degrees: number): number {
+  const a = 2 / (9 * degrees)
+  return (1 - a + 1.645 * Math.sqrt(a)) ** 3
 }

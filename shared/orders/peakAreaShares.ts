@@ -19,20 +19,32 @@ export function peakAreaShares(
   const counted = (i: number) => positions[i] >= first - toleranceFsr && positions[i] < last - toleranceFsr
   const power = measured.map((m) => m.areaVSamples * dt * Math.abs(sweepRateAt(calibration, tOf(m))))
   const byOrder = new Map<number, number>()
+  // Any one-FSR stretch holds every order once: the fraction of each stretch, and their scatter.
+  const periods = new Map<number, { fundamental: number; all: number }>()
   let total = 0
   for (let i = 0; i < measured.length; i++) {
     const l = labels[i]
     if (!counted(i) || l.kind !== 'carrier' || l.order === null || !(power[i] > 0)) continue
     total += power[i]
     byOrder.set(l.order, (byOrder.get(l.order) ?? 0) + power[i])
+    const period = Math.floor(positions[i] - first + toleranceFsr)
+    const p = periods.get(period) ?? { fundamental: 0, all: 0 }
+    p.all += power[i]
+    if (l.order === 0) p.fundamental += power[i]
+    periods.set(period, p)
   }
   if (!(total > 0)) return null
   const orders: Record<string, number> = {}
   for (const order of [...byOrder.keys()].sort((a, b) => a - b)) orders[String(order)] = byOrder.get(order)! / total
+  // The standard error of the mean of the periods' fractions (Bevington & Robinson, §4.1): the only error these
+  // areas give, and one that holds a laser's power changing between periods.
+  const fractions = [...periods.values()].map((p) => p.fundamental / p.all)
+  const mean = fractions.reduce((a, b) => a + b, 0) / Math.max(1, fractions.length)
+  const scatterError = fractions.length >= 2 ? Math.sqrt(fractions.reduce((a, f) => a + (f - mean) ** 2, 0) / (fractions.length - 1) / fractions.length) : null
   return {
     orders,
     fundamentalFraction: orders['0'] ?? 0,
-    fundamentalFractionError: null,
+    fundamentalFractionError: scatterError,
     measure: 'area',
     reducedChiSquare: null,
     finesse: null,

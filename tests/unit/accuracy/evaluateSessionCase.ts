@@ -2,7 +2,7 @@ import { analyzeTrace } from '../../../shared/analysis/analyzeTrace'
 import type { AnalysisResult } from '../../../shared/analysis/types'
 import { generateSweptTrace, type SimulatedPeakTruth } from '../../../shared/sim'
 import { traceFromSim } from '../analysis/traceFromSim'
-import type { SessionCase } from './sessionCases'
+import { FRACTION_BANDS, type SessionCase } from './sessionCases'
 
 /** One tuning-session case against its truth. */
 export interface SessionOutcome {
@@ -113,3 +113,26 @@ export const SESSION_TABLE_HEADER = [
   '| case | effect | Gouy | samples | finesse | FSRs | samples/linewidth | ramp | direction | truth shares % | found f0 | error (points) | FSR error % | finesse error % | labels on nothing / on another order’s line | warnings |',
   '|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|',
 ]
+
+export interface BandFigures {
+  band: [number, number]
+  count: number
+  medianPoints: number
+  worstPoints: number
+  /** Cases more than 3 points off (or refused) without `ambiguous_reading`. */
+  unflagged: SessionOutcome[]
+}
+
+export function bandFigures(all: SessionOutcome[]): BandFigures[] {
+  return FRACTION_BANDS.map((band, b) => {
+    const inBand = all.filter((o) => o.truthFraction >= band[0] && (o.truthFraction < band[1] || (b === FRACTION_BANDS.length - 1 && o.truthFraction <= 1)))
+    const errors = inBand.map((o) => (Number.isFinite(o.errorPoints) ? o.errorPoints : Infinity)).sort((x, y) => x - y)
+    return {
+      band,
+      count: inBand.length,
+      medianPoints: errors[errors.length >> 1],
+      worstPoints: errors[errors.length - 1],
+      unflagged: inBand.filter((o) => !(o.errorPoints <= 3) && !o.warnings.includes('ambiguous_reading')),
+    }
+  })
+}

@@ -1,7 +1,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
-import { evaluateSessionCase, SESSION_TABLE_HEADER, type SessionOutcome } from './evaluateSessionCase'
-import { FRACTION_BANDS, sessionCase, SESSION_CASE_COUNT } from './sessionCases'
+import { bandFigures, evaluateSessionCase, SESSION_TABLE_HEADER, type SessionOutcome } from './evaluateSessionCase'
+import { sessionCase, SESSION_CASE_COUNT } from './sessionCases'
 
 /**
  * Accuracy over a whole tuning session (issue 12): 100 generated traces whose TEM00 fraction is drawn from 5 % to
@@ -22,29 +22,6 @@ function run(): SessionOutcome[] {
     writeReport(outcomes)
   }
   return outcomes
-}
-
-interface BandFigures {
-  band: [number, number]
-  count: number
-  medianPoints: number
-  worstPoints: number
-  /** Cases more than 3 points off (or refused) without `ambiguous_reading`. */
-  unflagged: SessionOutcome[]
-}
-
-export function bandFigures(all: SessionOutcome[]): BandFigures[] {
-  return FRACTION_BANDS.map((band, b) => {
-    const inBand = all.filter((o) => o.truthFraction >= band[0] && (o.truthFraction < band[1] || (b === FRACTION_BANDS.length - 1 && o.truthFraction <= 1)))
-    const errors = inBand.map((o) => (Number.isFinite(o.errorPoints) ? o.errorPoints : Infinity)).sort((x, y) => x - y)
-    return {
-      band,
-      count: inBand.length,
-      medianPoints: errors[errors.length >> 1],
-      worstPoints: errors[errors.length - 1],
-      unflagged: inBand.filter((o) => !(o.errorPoints <= 3) && !o.warnings.includes('ambiguous_reading')),
-    }
-  })
 }
 
 function writeReport(all: SessionOutcome[]): void {
