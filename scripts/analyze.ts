@@ -1,5 +1,7 @@
 /**
- * `npm run --silent analyze -- TRACE_FILE --cavity CAVITY.json` — prints one JSON object, the AnalysisResult.
+ * `npm run --silent analyze -- TRACE_FILE --cavity CAVITY.json [--sweep-direction up|down]` — prints one JSON
+ * object, the AnalysisResult. `--sweep-direction` says which way the optical frequency runs during the sweep, when
+ * the lab knows it (it settles a reading the data leave mirrored).
  * On bad input it prints `{"error": {"code", "message"}}` and exits with status 1.
  */
 import { readFileSync } from 'node:fs'
@@ -8,17 +10,25 @@ import { cavityGeometrySchema } from '../shared/cavity'
 import { EngineError, isEngineError } from '../shared/errors'
 import { readTrace } from '../shared/trace/readTrace'
 
-function parseArguments(argv: string[]): { tracePath: string; cavityPath: string } {
+const USAGE = 'Usage: analyze TRACE_FILE --cavity CAVITY.json [--sweep-direction up|down]'
+
+function parseArguments(argv: string[]): { tracePath: string; cavityPath: string; sweepDirection?: 'up' | 'down' } {
   let tracePath: string | undefined
   let cavityPath: string | undefined
+  let direction: string | undefined
   for (let i = 0; i < argv.length; i++) {
     if (argv[i] === '--cavity') cavityPath = argv[++i]
     else if (argv[i].startsWith('--cavity=')) cavityPath = argv[i].slice('--cavity='.length)
+    else if (argv[i] === '--sweep-direction') direction = argv[++i]
+    else if (argv[i].startsWith('--sweep-direction=')) direction = argv[i].slice('--sweep-direction='.length)
     else if (!tracePath) tracePath = argv[i]
-    else throw new EngineError('usage', `Unexpected argument ${JSON.stringify(argv[i])}. Usage: analyze TRACE_FILE --cavity CAVITY.json`)
+    else throw new EngineError('usage', `Unexpected argument ${JSON.stringify(argv[i])}. ${USAGE}`)
   }
-  if (!tracePath || !cavityPath) throw new EngineError('usage', 'Usage: analyze TRACE_FILE --cavity CAVITY.json')
-  return { tracePath, cavityPath }
+  if (!tracePath || !cavityPath) throw new EngineError('usage', USAGE)
+  if (direction !== undefined && direction !== 'up' && direction !== 'down') {
+    throw new EngineError('usage', `--sweep-direction must be up or down, got ${JSON.stringify(direction)}. ${USAGE}`)
+  }
+  return { tracePath, cavityPath, sweepDirection: direction }
 }
 
 function readBytes(path: string, what: string): Buffer {
@@ -49,10 +59,10 @@ function readCavity(path: string) {
 
 function main(): number {
   try {
-    const { tracePath, cavityPath } = parseArguments(process.argv.slice(2))
+    const { tracePath, cavityPath, sweepDirection } = parseArguments(process.argv.slice(2))
     const cavity = readCavity(cavityPath)
     const trace = readTrace(new Uint8Array(readBytes(tracePath, 'trace')))
-    const result = analyzeTrace(trace, cavity)
+    const result = analyzeTrace(trace, cavity, sweepDirection ? { sweepDirection } : {})
     process.stdout.write(`${JSON.stringify(result, null, 2)}\n`)
     return 0
   } catch (error) {

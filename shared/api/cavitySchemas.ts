@@ -38,6 +38,8 @@ export const analysisOptionsSchema = z
     gouyOverrideRad: z.number().gt(0, 'gouyOverrideRad must be above 0').lt(Math.PI, 'gouyOverrideRad must be below π').optional(),
     peakModel: z.enum(['auto', 'lorentzian', 'airy']).optional(),
     modulationMHz: z.number().positive('modulationMHz must be positive').optional(),
+    /** Which way the optical frequency runs during the sweep, when the lab knows it (settles a mirrored reading). */
+    sweepDirection: z.enum(['up', 'down'], { message: "sweepDirection must be 'up' or 'down'" }).optional(),
   })
   .strict()
 export type AnalysisOptions = z.infer<typeof analysisOptionsSchema>

@@ -120,6 +120,16 @@ describe('the tuning loop: cavities, uploads, analyses', () => {
     const badOption = await request(server.url).post(`/api/traces/${done.traceId}/analyses`).set('Authorization', experimenter.authorization).send({ peakModel: 'gaussian' })
     expect(badOption.status).toBe(400)
     expect(badOption.body.error.message).toContain('peakModel')
+
+    // The sweep direction a lab knows settles a mirrored reading: accepted, kept with the analysis, and checked.
+    const directed = await request(server.url).post(`/api/traces/${done.traceId}/analyses`).set('Authorization', experimenter.authorization).send({ sweepDirection: 'down' })
+    expect(directed.status).toBe(202)
+    const directedDone = await waitForAnalysis(server, experimenter, directed.body.analysis.id)
+    expect(directedDone.options).toEqual({ sweepDirection: 'down' })
+    expect(directedDone.result.sweep.direction).toBe('down')
+    const badDirection = await request(server.url).post(`/api/traces/${done.traceId}/analyses`).set('Authorization', experimenter.authorization).send({ sweepDirection: 'sideways' })
+    expect(badDirection.status).toBe(400)
+    expect(badDirection.body.error.message).toContain('sweepDirection')
   })
 
   it('when the history is read then it lists the analyses newest first with note, fraction and status', async () => {
