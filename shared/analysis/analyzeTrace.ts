@@ -334,7 +334,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     ...(structure.ownerOf.size && structure.periodSeconds
       ? [{
           code: 'detector_ringing',
-          message: `${structure.ownerOf.size} small peaks follow the resonances at a constant spacing of ${fmt(structure.periodSeconds * 1e6)} µs (${fmt(1e-3 / structure.periodSeconds)} kHz), each lower than the one before: the detector or its amplifier rings. They are folded into the resonance they follow (their area counts with it) and are not read as resonances. A detector this slow also widens the lines, so the linewidth reads wide and the finesse low; a faster photodiode or a lower amplifier gain removes the ringing.`,
+          message: `${structure.ownerOf.size} small peaks follow the resonances at a constant spacing of ${fmt(structure.periodSeconds * 1e6)} µs (${fmt(1e-3 / structure.periodSeconds)} kHz), each lower than the one before: the detector or its amplifier rings. They are folded into the resonance they follow (their area counts with it) and are not read as resonances. A detector this slow also reshapes the lines, so the linewidth and the finesse read wrong (by some tens of per cent); a faster photodiode or a lower amplifier gain removes the ringing.`,
         }]
       : []),
     ...(shares.splitFsr > 0
@@ -363,6 +363,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       resolutionFsr: calibration ? (3 * dt) / Math.abs(calibration.fsrSeconds) : 0,
       orders,
       orderResidualRmsFsr: orderResidual,
+      calibrated: calibration !== null,
       sweepSpeed: sweepSpeed?.speed ?? null,
       ringdownFinesse: ringdown && apparentFinesse !== null ? { value: ringdown.value, apparent: apparentFinesse } : null,
       spikeTrains: tall.spikeTrains === true,

@@ -17,6 +17,8 @@ export interface WarningInputs {
   /** Three samples on the calibrated axis, FSR: lines closer than the sampling resolves cannot be told apart either. */
   resolutionFsr: number
   orders: Record<string, number>
+  /** True when the time axis is calibrated (on TEM00, or on the transverse families when one TEM00 is in view). */
+  calibrated: boolean
   /** RMS distance of the matched carriers from their predicted places, FSR units (null without a calibration). */
   orderResidualRmsFsr: number | null
   /**
@@ -72,7 +74,9 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
   if (fundamentalCount < 2) {
     w.push({
       code: 'single_fundamental',
-      message: 'Fewer than two TEM00 resonances in the sweep: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. The TEM00 fraction is only TEM00 power against all resonance power seen, a rough figure. Sweep over more than one FSR.',
+      message: input.calibrated
+        ? 'One TEM00 resonance in the sweep: the time axis is calibrated on the transverse families that repeat one FSR later, and the orders are placed from it. The FSR on the time axis is the local period at that TEM00, only as good as the few resonances pin the bend of the sweep (a percent or two on a nonlinear piezo). Sweep over two FSRs or more for a firmer reading.'
+        : 'Fewer than two TEM00 resonances in the sweep and no family of resonances that repeats: the time axis cannot be calibrated, transverse orders cannot be placed and the FSR comes from the cavity length only. The TEM00 fraction is only TEM00 power against all resonance power seen, a rough figure. Sweep over more than one FSR.',
     })
   }
   if (fundamentalCount === 2) {

@@ -46,6 +46,11 @@ describe('reading the spectrum against the cavity', () => {
     expect(Math.abs(result.fundamentalFraction - sim.truth.fundamentalFraction)).toBeLessThan(0.01)
     expect(result.orders['1']).toBeGreaterThan(0.2)
     expect(result.orders['2']).toBeGreaterThan(0.1)
+    // The warning says how the sweep was calibrated, not that nothing could be placed.
+    expect(result.warnings.find((w) => w.code === 'single_fundamental')!.message).toMatch(/calibrated on the transverse families/)
+    // The local FSR at the TEM00 against the sweep model's own (truth fsrSecondsHere): within 1 % here.
+    const here = sim.truth.peaks.find((p) => p.order === 0 && p.kind === 'carrier')!.fsrSecondsHere!
+    expect(Math.abs(result.fsr.seconds! / here - 1)).toBeLessThan(0.01)
   })
 
   it('when the length is entered 5 % too long then the Gouy phase comes from the data and the warning names the true length within 1 %', () => {

@@ -53,6 +53,7 @@ function inputsFor(resonances: { at: number; heightV: number; label: OrderLabel 
     resolutionFsr: 0,
     orders: { 0: 0.8, 1: 0.1, 2: 0.1 },
     orderResidualRmsFsr: 1e-4,
+    calibrated: true,
     sweepSpeed: 0.01,
     ringdownFinesse: null,
     spikeTrains: false,
