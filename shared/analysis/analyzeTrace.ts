@@ -331,7 +331,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const warnings: EngineWarning[] = [
     ...trace.warnings,
     ...doubts.warnings,
-    ...(structure.ownerOf.size && structure.periodSeconds
+    // (A sweep fast enough to make the cavity ring explains such lobes itself: its own warning says so.)
+    ...(structure.ownerOf.size && structure.periodSeconds && !(sweepSpeed && sweepSpeed.speed >= SWEEP_SPEED_RINGING)
       ? [{
           code: 'detector_ringing',
           message: `${structure.ownerOf.size} small peaks follow the resonances at a constant spacing of ${fmt(structure.periodSeconds * 1e6)} µs (${fmt(1e-3 / structure.periodSeconds)} kHz), each lower than the one before: the detector or its amplifier rings. They are folded into the resonance they follow (their area counts with it) and are not read as resonances. A detector this slow also reshapes the lines, so the linewidth and the finesse read wrong (by some tens of per cent); a faster photodiode or a lower amplifier gain removes the ringing.`,
