@@ -5,15 +5,13 @@ import { selectSweep } from '../sweep/selectSweep'
 import { findSweepInData } from '../sweep/findSweepInData'
 import { indexRange } from '../sweep/indexRange'
 import { assertVaries, prepareSignal, type PreparedSignal } from '../peaks/prepareSignal'
-import { rawMax, tallResonances } from '../peaks/tallResonances'
+import { tallResonances } from '../peaks/tallResonances'
+import { findAllResonances } from '../peaks/findAllResonances'
 import { foldFastStructure } from '../peaks/foldFastStructure'
-import { findResonances } from '../peaks/findResonances'
-import { smoothSignal } from '../peaks/smoothSignal'
-import { measureResonances, type MeasuredResonance } from '../peaks/measureResonances'
+import type { MeasuredResonance } from '../peaks/measureResonances'
 import { finesseFrom, fitFundamentals } from '../peaks/fitFundamentals'
 import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { calibrateWithOrders } from '../calibration/calibrateWithOrders'
-import { findFundamentals } from '../orders/findFundamentals'
 import { chooseComb, unlessLadder } from '../orders/chooseComb'
 import { orderFamilies } from '../orders/orderFamilies'
 import { assignOrders, type OrderLabel } from '../orders/assignOrders'
@@ -82,26 +80,11 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     ? { ...whole, signal: whole.signal.subarray(sweep.startIndex, sweep.endIndex) }
     : prepareSignal(part)
 
-  // 3. Pass 1: the tall resonances give the TEM00 linewidth in samples.
-  const tall = tallResonances(signal, sigmaV)
-  if (tall.length === 0) {
-    throw new EngineError('no_resonances', 'No resonance stands out of the noise in the selected sweep; check the channel and the sweep range')
-  }
-  const tallComb = findFundamentals(tall.map((m) => ({ center: m.centerIndex, height: m.heightV })))
-  const roughWidth = median(tallComb.members.map((k) => tall[k].fwhmSamples))
-
-  // 4. Pass 2: smooth at half the linewidth (a matched filter's scale) and find every resonance standing out.
-  const halfWidth = Math.max(0, Math.floor(roughWidth / 4))
-  const smooth = halfWidth > 0 ? smoothSignal(signal, { halfWidth }) : signal
-  const candidates = findResonances(smooth, sigmaV / Math.sqrt(2 * halfWidth + 1), { minSeparationSamples: 0.7 * roughWidth })
-  for (const c of candidates) c.maxV = rawMax(signal, c.peakIndex, halfWidth)
-  if (candidates.length === 0) {
-    throw new EngineError('no_resonances', 'No resonance stands out of the noise in the selected sweep; check the channel and the sweep range')
-  }
+  // 3–4. The tall resonances give the TEM00 linewidth; smoothed at half of it, every resonance is found and measured.
+  const { tall, roughWidth, measured: found } = findAllResonances(signal, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
   const tOf = (m: MeasuredResonance) => timeAt(sweep.startIndex + m.centerIndex)
   // Periodic fast structure after each resonance (a detector that rings) is folded into the resonance it follows:
   // its lobes are no resonances of the cavity and must never be read as a comb.
-  const found = measureResonances(signal, candidates, sigmaV, { model: peakModel === 'airy' ? 'airy' : 'lorentzian' })
   // (Spike trains of a dither were recognised among the tall resonances already and are measured by area.)
   const structure = tall.spikeTrains
     ? { ownerOf: new Map<number, number>(), periodSeconds: null, kind: null }

@@ -1,10 +1,6 @@
-import { findFundamentals } from '../../../shared/orders/findFundamentals'
-import { findResonances } from '../../../shared/peaks/findResonances'
-import { measureResonances } from '../../../shared/peaks/measureResonances'
+import { findAllResonances } from '../../../shared/peaks/findAllResonances'
 import { prepareSignal, type PreparedSignal } from '../../../shared/peaks/prepareSignal'
-import { smoothSignal } from '../../../shared/peaks/smoothSignal'
-import { rawMax, tallResonances } from '../../../shared/peaks/tallResonances'
-import { median } from '../../../shared/numbers'
+import { tallResonances } from '../../../shared/peaks/tallResonances'
 import type { StructurePeak } from '../../../shared/peaks/foldFastStructure'
 import type { SweptTrace } from '../../../shared/sim'
 import { findSweepInData } from '../../../shared/sweep/findSweepInData'
@@ -28,14 +24,7 @@ export function resonancesFromSim(sim: SweptTrace): { peaks: StructurePeak[]; si
   const { signal, sigmaV } = whole
     ? { ...whole, signal: whole.signal.subarray(sweep.startIndex, sweep.endIndex) }
     : prepareSignal(values.subarray(sweep.startIndex, sweep.endIndex))
-  const tall = tallResonances(signal, sigmaV)
-  const tallComb = findFundamentals(tall.map((m) => ({ center: m.centerIndex, height: m.heightV })))
-  const roughWidth = median(tallComb.members.map((k) => tall[k].fwhmSamples))
-  const halfWidth = Math.max(0, Math.floor(roughWidth / 4))
-  const smooth = halfWidth > 0 ? smoothSignal(signal, { halfWidth }) : signal
-  const candidates = findResonances(smooth, sigmaV / Math.sqrt(2 * halfWidth + 1), { minSeparationSamples: 0.7 * roughWidth })
-  for (const c of candidates) c.maxV = rawMax(signal, c.peakIndex, halfWidth)
-  const measured = measureResonances(signal, candidates, sigmaV)
+  const { measured } = findAllResonances(signal, sigmaV)
   const startSeconds = sim.tSeconds[0] + sweep.startIndex * dt
   return {
     peaks: measured.map((m) => ({
