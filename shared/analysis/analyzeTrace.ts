@@ -372,7 +372,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     misalignmentShare,
     mismatchShare,
     reading: calibration
-      ? readingOfShares(fundamentalFraction, misalignmentShare, mismatchShare)
+      ? `${doubts.warnings.some((w) => w.code === 'ambiguous_reading') ? 'This reading of the spectrum may be wrong (see the warning on an ambiguous reading); if it holds: ' : ''}${readingOfShares(fundamentalFraction, misalignmentShare, mismatchShare)}`
       : `About ${(100 * fundamentalFraction).toFixed(0)} % of the resonance power seen is in TEM00, but with fewer than two TEM00 resonances in the sweep no other resonance can be given an order, so misalignment and mismatch cannot be told apart. Sweep over more than one FSR and analyse again.`,
     measure: useHeight ? 'height' : 'area',
     measureReason: useHeight

@@ -83,7 +83,7 @@ export function collectWarnings(input: WarningInputs): EngineWarning[] {
     const spread = input.orderResidualRmsFsr !== null && input.orderResidualRmsFsr > 0 ? ` by about ±${Math.max(input.orderResidualRmsFsr, 1e-4).toFixed(4)} FSR` : ''
     w.push({
       code: 'two_fundamentals',
-      message: `Only two TEM00 resonances: the piezo nonlinearity cannot be read from the TEM00 spacing, so the sweep between them is taken from the transverse modes with the Gouy phase held at the prediction; order positions are uncertain${spread} and the measured Gouy phase is the predicted one. Sweep over three or more FSRs for a checked calibration.`,
+      message: `Only two TEM00 resonances: the piezo nonlinearity cannot be read from the TEM00 spacing alone, so the sweep between them is taken from the transverse families that repeat and from the places of the transverse modes; order positions are uncertain${spread}, and so is the measured Gouy phase. Sweep over three or more FSRs for a checked calibration.`,
     })
   }
   const degenerate = degeneracy(input)

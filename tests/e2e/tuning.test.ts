@@ -129,5 +129,26 @@ describe('the tuning loop in a real browser', () => {
     await page.waitForFunction(() => (document.querySelector('[data-testid="trace-chart"]')?.getAttribute('data-markers') ?? '').includes('0'))
     await page.getByTestId('axis-mode').getByText('Seconds').click()
     expect(statSync(await browser.screenshot('analysis')).size).toBeGreaterThan(10_000)
+    // A clear reading carries no doubt beside its headline.
+    expect(await page.getByTestId('reading-doubt').count()).toBe(0)
+  })
+
+  it('when a trace reads as well mirrored then the headline says the reading is in doubt and names the other fraction', async () => {
+    // Only TEM00 and orders 2 and 3 (30/45/25 %): read backwards, orders {0, 2, 3} are {3, 1, 0} at the same places.
+    const { page } = browser
+    const mirrored = await request(server.url)
+      .post(`/api/cavities/${cavityId}/traces`)
+      .set('Authorization', lead.authorization)
+      .field('note', 'beam far off, lens moved')
+      .attach('file', Buffer.from(generatedTraceCsv({ gouyOneWayRad, orderPowers: [0.3, 0, 0.45, 0.25], fsrCount: 3.2, seed: 21 })), 'scan-mirror.csv')
+    expect(mirrored.status).toBe(202)
+    const analysisId = mirrored.body.uploads[0].analysis.id
+    expect((await waitForDone(server, lead, analysisId)).status).toBe('done')
+    await page.goto(`${server.url}/analyses/${analysisId}`)
+    const doubt = page.getByTestId('reading-doubt')
+    await doubt.waitFor()
+    expect(await doubt.innerText()).toMatch(/reading in doubt — or about [\d.]+\s%/)
+    expect(await page.getByText('ambiguous_reading').count()).toBeGreaterThan(0)
+    expect(statSync(await browser.screenshot('analysis-doubt')).size).toBeGreaterThan(10_000)
   })
 })
