@@ -38,6 +38,8 @@ const ALWAYS_MEASURED_ORDERS = 4
  * worth points of the fraction (a misalignment's Poisson tail; Anderson, Appl. Opt. 23, 2944 (1984), from memory).
  */
 const POOR_MATCH_MEASURED_ORDERS = 8
+/** Below this finesse the line model is not set up (the search ranges reach below 1; lines overlap into a continuum). */
+const MIN_MODEL_FINESSE = 3
 /** A peak is labelled on its own when its height stands this many σ above the noise (5σ, common practice). */
 const LABEL_SIGNIFICANCE = 5
 /** … or this many σ when its order is reported (the matched filter over all FSRs finds it). */
@@ -190,7 +192,11 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     // The reading decides the direction when its mirror image (same TEM00, other direction) explains the resonances
     // clearly worse; otherwise the weak lines are asked (below).
     const mirror = reading ? readings.find((r) => r.direction !== reading.direction && r.fundamentals.join() === reading.fundamentals.join()) : undefined
-    const readingSettles = reading !== null && (options.sweepDirection !== undefined || !mirror || mirror.cost - reading.cost >= DIRECTION_COST)
+    // When the orders' places mirror onto one another (ψ a simple fraction of π: orders N and M − N swap), positions
+    // cannot settle it whatever the costs say: the assignment's low-order prior decides, and says so.
+    const offsets = families.leaders.filter((order) => order > 0 && order <= ALWAYS_MEASURED_ORDERS).map((order) => transverseOffsetFsr(order, readingGouy))
+    const selfMirrored = offsets.every((a) => offsets.some((b) => Math.abs(a + b - Math.round(a + b)) <= 0.005))
+    const readingSettles = reading !== null && (options.sweepDirection !== undefined || ((!mirror || mirror.cost - reading.cost >= DIRECTION_COST) && !selfMirrored))
     let outcome = assignAndRefine(reading && readingSettles ? [reading.direction] : options.sweepDirection ? [options.sweepDirection] : ['up', 'down'])
     directionEvidence = reading && readingSettles && !options.sweepDirection
       ? `The resonances' places decide it: read as ${reading.direction} (${reading.direction === 'up' ? 'optical frequency rises with time' : 'optical frequency falls with time'}), the orders stand at their N·ψ/π places${mirror ? `; read the other way they explain ${fmt(100 * Math.min(1, mirror.cost - reading.cost))} % of the tallest resonance's height less` : ''}.`
@@ -250,7 +256,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
         startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
       })
-  let shares = calibration && finesse && window ? measureOrSkip(() => lineModel(calibration!, finesse!, window)) : null
+  // A finesse of a few means no line shape to model (a reading whose calibration went astray): count areas instead.
+  let shares = calibration && finesse && finesse.value >= MIN_MODEL_FINESSE && window ? measureOrSkip(() => lineModel(calibration!, finesse!, window)) : null
   // The line model may find no TEM00 power where the reading put it (a reading gone wrong): the resonances found
   // are then counted one by one, and the doubt is reported below.
   const lineModelFailed = calibration !== null && finesse !== null && window !== null && shares === null

@@ -1,7 +1,7 @@
 import { calibrateSweep, type SweepCalibration } from '../calibration/calibrateSweep'
 import { frac, median } from '../numbers'
 import { calibrateFromChains, polyval, spacingOf, straightSweep } from './reading/calibrateFromChains'
-import { chainsFrom, linkFamilies, periodCandidates } from './reading/periodCandidates'
+import { chainsFrom, linkFamilies, periodCandidates, type Link } from './reading/periodCandidates'
 import { hypotheses, missingLineCost, type Hypothesis } from './reading/scoreReadings'
 import { familiesFrom, markOrphans, markSatellites, type Family } from './reading/spectrumFamilies'
 
@@ -84,16 +84,18 @@ export function readSpectrum(peaks: SpectrumPeak[], options: ReadSpectrumOptions
   const startSeconds = options.startSeconds ?? Math.min(...peaks.map((p) => p.tSeconds))
   const periods = periodCandidates(peaks, order, sigmaV, width, endSeconds)
   const readings: SpectrumReading[] = []
-  // The tallest comb's spacing is tried too, its families linked however their heights vary (a laser whose power
-  // jumps between sweeps, or runs on several longitudinal modes, changes every height by a factor of a few).
+  // The tallest comb's spacing is tried too, the comb kept as one family however its heights vary (a laser whose
+  // power jumps between sweeps, or runs on several longitudinal modes, changes every height by a factor of a few);
+  // the other families are linked as usual, by heights that look alike.
   const tried: { seconds: number; relative: number; comb?: boolean; ladder?: boolean }[] = periods.slice(0, 3).map((p) => ({ seconds: p.seconds, relative: 0.25 }))
   const comb = options.comb
   const combHeights = comb ? comb.members.map((i) => peaks[i].heightV) : []
   // Only when no period explains the repeats well by itself (heights that jump from one FSR to the next).
-  const combPeriod = comb && comb.members.length >= 2 && Math.max(...combHeights) <= 4 * Math.min(...combHeights) && !(periods[0]?.score >= 0.9)
+  // Three members at least: two may as well be one TEM00 and its order 1 (the pipeline's comb check says so).
+  const combPeriod = comb && comb.members.length >= 3 && Math.max(...combHeights) <= 4 * Math.min(...combHeights) && !(periods[0]?.score >= 0.9)
     ? (peaks[comb.members[comb.members.length - 1]].tSeconds - peaks[comb.members[0]].tSeconds) / (comb.fsrIndex[comb.fsrIndex.length - 1] - comb.fsrIndex[0])
     : null
-  if (combPeriod) tried.push({ seconds: combPeriod, relative: 0.7, comb: true })
+  if (combPeriod) tried.push({ seconds: combPeriod, relative: 0.25, comb: true })
   // When nothing repeats (a sweep of little more than one FSR that holds one TEM00 and a ladder of orders), the
   // spacing from the tallest resonance to each other one may be k·ψ/π of an FSR (ψ from the geometry, k = 1 … 4):
   // those periods are tried with a straight-line sweep. They lean on the geometry and pay for it (NO_REPEAT_COST).
@@ -110,7 +112,7 @@ export function readSpectrum(peaks: SpectrumPeak[], options: ReadSpectrumOptions
     }
   }
   for (const period of tried) {
-    const links = period.ladder ? [] : linkFamilies(peaks, order, period.seconds, sigmaV, width, period.relative)
+    const links = period.ladder ? [] : period.comb && comb ? combLinks(linkFamilies(peaks, order, period.seconds, sigmaV, width, period.relative), comb) : linkFamilies(peaks, order, period.seconds, sigmaV, width, period.relative)
     if (links.length === 0 && !period.ladder) continue
     const chains = chainsFrom(links, peaks.length)
     // On the tallest comb's period the comb itself calibrates (through up to four members exactly, as on TEM00).
@@ -146,6 +148,16 @@ export function readSpectrum(peaks: SpectrumPeak[], options: ReadSpectrumOptions
     if (distinct.length >= keep) break
   }
   return distinct
+}
+
+/** The links found, less any that touch the comb, plus the comb's own members linked in order. */
+function combLinks(found: Link[], comb: { members: number[]; fsrIndex: number[] }): Link[] {
+  const members = new Set(comb.members)
+  const own: Link[] = []
+  for (let k = 1; k < comb.members.length; k++) {
+    if (comb.fsrIndex[k] - comb.fsrIndex[k - 1] === 1) own.push({ from: comb.members[k - 1], to: comb.members[k], weight: 1 })
+  }
+  return [...found.filter((l) => !members.has(l.from) && !members.has(l.to)), ...own]
 }
 
 /** Price of a reading whose FSR comes from the geometry's Gouy phase because no resonance repeats in the sweep. */

@@ -58,7 +58,7 @@ function periodicity(peaks: SpectrumPeak[], strong: number[], links: Link[], end
   return eligible > 0 ? (matched / eligible) * Math.min(1, links.length / 2) : 0
 }
 
-interface Link {
+export interface Link {
   from: number
   to: number
   weight: number
