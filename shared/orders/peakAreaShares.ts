@@ -41,24 +41,28 @@ export function peakAreaShares(
   const fractions = [...periods.values()].map((p) => p.fundamental / p.all)
   const mean = fractions.reduce((a, b) => a + b, 0) / Math.max(1, fractions.length)
   const scatterError = fractions.length >= 2 ? Math.sqrt(fractions.reduce((a, f) => a + (f - mean) ** 2, 0) / (fractions.length - 1) / fractions.length) : null
+  return areaShares(orders, scatterError, (order, positionFsr) => {
+    const i = positions.indexOf(positionFsr)
+    return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
+  })
+}
+
+/** Shares measured by area, without the line model (no χ², no refined finesse, no estimates of unseen orders). */
+function areaShares(orders: Record<string, number>, fundamentalFractionError: number | null, shareOfPeak: Shares['shareOfPeak']): Shares {
   return {
     orders,
     fundamentalFraction: orders['0'] ?? 0,
-    fundamentalFractionError: scatterError,
+    fundamentalFractionError,
     measure: 'area',
     reducedChiSquare: null,
     finesse: null,
     belowNoiseShare: 0,
     orderEstimates: [],
     splitFsr: 0,
-    shareOfPeak: (order, positionFsr) => {
-      const i = positions.indexOf(positionFsr)
-      return i >= 0 && counted(i) && labels[i].kind === 'carrier' && labels[i].order === order ? power[i] / total : 0
-    },
+    shareOfPeak,
   }
 }
 
-/** Without two TEM00 resonances nothing else can be placed: TEM00 is all that is counted. */
 /**
  * Without two TEM00 resonances the sweep cannot be calibrated, so no resonance can be given an order. The TEM00
  * fraction is then the TEM00 resonances' integrated power against all resonance power seen in the sweep: a rough
@@ -74,16 +78,5 @@ export function fundamentalOnlyShares(measured: MeasuredResonance[], members: nu
     if (isFundamental.has(k)) fundamental += area
   }
   const fraction = all > 0 ? fundamental / all : 1
-  return {
-    orders: { '0': fraction },
-    fundamentalFraction: fraction,
-    fundamentalFractionError: null,
-    measure: 'area',
-    reducedChiSquare: null,
-    finesse: null,
-    belowNoiseShare: 0,
-    orderEstimates: [],
-    splitFsr: 0,
-    shareOfPeak: (order) => (order === 0 && members.length > 0 ? fraction / members.length : 0),
-  }
+  return areaShares({ '0': fraction }, null, (order) => (order === 0 && members.length > 0 ? fraction / members.length : 0))
 }
