@@ -7,7 +7,7 @@ import { fmt } from '../numbers'
  * A rival reading that costs less than this much more than the best (in units of the tallest resonance's height:
  * about one unexplained resonance of a tenth of the tallest) is as good an account of the data. Set on the tuning
  * cases of seed 7100 (tests/unit/accuracy/sessionCases.ts), where every wrong reading had a rival within 0.01–0.09
- * and two-thirds of the right ones had none within 0.1; checked on other seeds by scripts/survey-accuracy.ts.
+ * and two-thirds of the right ones had none within 0.1; checked on other seed bases by scripts/survey-session.ts.
  */
 export const AMBIGUITY_COST = 0.1
 
