@@ -34,6 +34,7 @@ interface AnalysisFacts {
   archived: boolean
   target_fundamental_fraction: number | null
   finesse_drop_percent: number | null
+  reading_in_doubt: boolean
 }
 
 /** Median finesse of the cavity's done analyses in the window before analysis `analysisId`; null with too few. */
@@ -53,7 +54,10 @@ export async function checkAlertsAfterAnalysis(db: Db, analysisId: string): Prom
   const facts = (await db('analyses as a')
     .join('cavities as c', 'c.id', 'a.cavity_id')
     .where('a.id', analysisId)
-    .first('a.id', 'a.cavity_id', 'a.status', 'a.created_at', 'a.fundamental_fraction', 'a.finesse', 'c.name', 'c.archived', 'c.target_fundamental_fraction', 'c.finesse_drop_percent')) as
+    .first(
+      'a.id', 'a.cavity_id', 'a.status', 'a.created_at', 'a.fundamental_fraction', 'a.finesse', 'c.name', 'c.archived', 'c.target_fundamental_fraction', 'c.finesse_drop_percent',
+      db.raw(`coalesce(a.result -> 'warnings' @> '[{"code": "ambiguous_reading"}]'::jsonb, false) as reading_in_doubt`),
+    )) as
     | AnalysisFacts
     | undefined
   if (!facts || facts.status !== 'done') return { breaches: [], recoveries: [], skipped: 'not_done' }
@@ -68,7 +72,7 @@ export async function checkAlertsAfterAnalysis(db: Db, analysisId: string): Prom
 
   const settings = { targetFundamentalFraction: facts.target_fundamental_fraction, finesseDropPercent: facts.finesse_drop_percent }
   const medianFinesse = settings.finesseDropPercent === null ? null : await recentMedianFinesse(db, facts.cavity_id, facts.id)
-  const verdicts = judgeAlerts({ fundamentalFraction: facts.fundamental_fraction, finesse: facts.finesse, settings, medianFinesse })
+  const verdicts = judgeAlerts({ fundamentalFraction: facts.fundamental_fraction, finesse: facts.finesse, settings, medianFinesse, readingInDoubt: facts.reading_in_doubt })
 
   return db.transaction(async (trx) => {
     const changes: RuleChange[] = []

@@ -13,14 +13,19 @@ export interface AlertInputs {
   settings: AlertSettings
   /** Median finesse of the cavity's done analyses in the 30 days before this one; null with too few. */
   medianFinesse: number | null
+  /**
+   * The engine says its reading of the spectrum may be wrong (`ambiguous_reading`): its TEM00 fraction neither
+   * raises nor clears the target alert. @default false
+   */
+  readingInDoubt?: boolean
 }
 
 export function judgeAlerts(inputs: AlertInputs): Record<AlertKind, Verdict> {
-  const { fundamentalFraction, finesse, settings, medianFinesse } = inputs
+  const { fundamentalFraction, finesse, settings, medianFinesse, readingInDoubt = false } = inputs
   const target = settings.targetFundamentalFraction
   const dropPercent = settings.finesseDropPercent
   const fraction: Verdict =
-    target === null ? 'off' : fundamentalFraction === null ? 'unknown' : { breached: fundamentalFraction < target, value: fundamentalFraction, threshold: target }
+    target === null ? 'off' : fundamentalFraction === null || readingInDoubt ? 'unknown' : { breached: fundamentalFraction < target, value: fundamentalFraction, threshold: target }
   let drop: Verdict = 'off'
   if (dropPercent !== null) {
     if (finesse === null || medianFinesse === null) drop = 'unknown'

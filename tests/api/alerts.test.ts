@@ -210,4 +210,20 @@ describe('alerts, notifications and the weekly digest', () => {
     expect(schedules).toEqual([expect.objectContaining({ name: 'weekly-digest', cron: '0 7 * * 1' })])
     expect(schedules[0].options.tz).toBe('UTC')
   })
+  it('when a reading is in doubt then its TEM00 fraction neither raises nor clears the target alert', async () => {
+    // Back above the target first (cleared, no mail).
+    await analyse(fractionCavityId, { orderPowers: [0.85, 0.08, 0.05, 0.02] })
+    const before = (await as(viewer).get(`/api/cavities/${fractionCavityId}/alerts`)).body.states[0]
+    expect(before.breached).toBe(false)
+    const mailsBefore = (await alertMailsTo(viewer)).length
+    // Only TEM00 and orders 2 and 3: the spectrum reads as well mirrored, and the result says so (ambiguous_reading).
+    const doubtful = await analyse(fractionCavityId, { orderPowers: [0.3, 0, 0.45, 0.25], fsrCount: 3.2, seed: 21 })
+    expect(doubtful.fraction).toBeLessThan(0.7)
+    const warnings = (await as(viewer).get(`/api/analyses/${doubtful.analysisId}`)).body.result.warnings.map((w: { code: string }) => w.code)
+    expect(warnings).toContain('ambiguous_reading')
+    const after = (await as(viewer).get(`/api/cavities/${fractionCavityId}/alerts`)).body.states[0]
+    expect(after.breached).toBe(false)
+    expect(after.analysisId).toBe(before.analysisId)
+    expect(await alertMailsTo(viewer)).toHaveLength(mailsBefore)
+  })
 })

@@ -150,5 +150,12 @@ describe('the tuning loop in a real browser', () => {
     expect(await doubt.innerText()).toMatch(/reading in doubt — or about [\d.]+\s%/)
     expect(await page.getByText('ambiguous_reading').count()).toBeGreaterThan(0)
     expect(statSync(await browser.screenshot('analysis-doubt')).size).toBeGreaterThan(10_000)
+    // On the tuning page the newest result says the same, and the target is neither met nor missed.
+    await page.goto(`${server.url}/cavities/${cavityId}`)
+    await page.getByTestId('tune-link').click()
+    await page.getByTestId('latest-result').getByText('scan-mirror.csv').waitFor()
+    expect(await page.getByTestId('latest-doubt').innerText()).toMatch(/reading in doubt/)
+    expect(await page.getByTestId('latest-result').innerText()).toContain('cannot tell')
+    expect(statSync(await browser.screenshot('tuning-doubt')).size).toBeGreaterThan(10_000)
   })
 })
