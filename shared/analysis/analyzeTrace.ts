@@ -7,10 +7,11 @@ import { indexRange } from '../sweep/indexRange'
 import { assertVaries, prepareSignal, type PreparedSignal } from '../peaks/prepareSignal'
 import { tallResonances } from '../peaks/tallResonances'
 import { findAllResonances } from '../peaks/findAllResonances'
-import { foldFastStructure } from '../peaks/foldFastStructure'
+import { foldFastStructure, foldLobes } from '../peaks/foldFastStructure'
 import type { MeasuredResonance } from '../peaks/measureResonances'
 import { finesseFrom, fitFundamentals } from '../peaks/fitFundamentals'
-import { calibrateSweep, frequencyAt, sweepRateAt, type SweepCalibration } from '../calibration/calibrateSweep'
+import { calibrateSweep, frequencyAt, type SweepCalibration } from '../calibration/calibrateSweep'
+import { fsrOnTimeAxis } from '../calibration/fsrOnTimeAxis'
 import { calibrateWithOrders } from '../calibration/calibrateWithOrders'
 import { chooseComb, unlessLadder } from '../orders/chooseComb'
 import { orderFamilies } from '../orders/orderFamilies'
@@ -25,7 +26,7 @@ import { finesseFromRingdown, ringLobes, sweepSpeedOf } from './finesseFromRingd
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings, SWEEP_SPEED_RINGING } from './collectWarnings'
-import { readingDoubts } from './readingDoubts'
+import { readingDoubts, unassignedShareOf } from './readingDoubts'
 import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 
 /** Highest transverse order the assignment considers. */
@@ -423,19 +424,6 @@ function measuredOrders(leaders: number[], labels: OrderLabel[], always: number)
   return leaders.filter((order) => order <= always || seen.has(order))
 }
 
-/**
- * The FSR on the file's time axis: the TEM00 spacings (median, mean, range) with two or more TEM00; with one, the
- * local period of the calibrated sweep at it (its inverse rate, which the transverse families pin).
- */
-function fsrOnTimeAxis(calibration: SweepCalibration | null, fundamentalTimes: number[]): { seconds: number | null; meanSpacingSeconds: number | null; spacingRangeSeconds: [number, number] | null } {
-  if (!calibration) return { seconds: null, meanSpacingSeconds: null, spacingRangeSeconds: null }
-  if (fundamentalTimes.length === 1) {
-    const local = 1 / Math.abs(sweepRateAt(calibration, fundamentalTimes[0]))
-    return { seconds: local, meanSpacingSeconds: local, spacingRangeSeconds: [local, local] }
-  }
-  return { seconds: calibration.fsrSeconds, meanSpacingSeconds: calibration.meanSpacingSeconds, spacingRangeSeconds: calibration.spacingRangeSeconds }
-}
-
 /** The line model's shares, or null when it finds no TEM00 power to measure (other errors propagate). */
 function measureOrSkip<T>(measure: () => T): T | null {
   try {
@@ -444,24 +432,6 @@ function measureOrSkip<T>(measure: () => T): T | null {
     if (error instanceof EngineError && error.code === 'no_resonances') return null
     throw error
   }
-}
-
-/** Height of the unassigned peaks over the height of all peaks listed (0 with none). */
-function unassignedShareOf(peaks: AnalysisPeak[]): number {
-  let all = 0
-  let unassigned = 0
-  for (const p of peaks) {
-    all += Math.max(0, p.height)
-    if (p.kind === 'unassigned') unassigned += Math.max(0, p.height)
-  }
-  return all > 0 ? unassigned / all : 0
-}
-
-/** The resonances less the lobes of fast structure, each lobe's area added to the resonance it follows. */
-function foldLobes(found: MeasuredResonance[], ownerOf: Map<number, number>): MeasuredResonance[] {
-  const extra = new Map<number, number>()
-  for (const [lobe, owner] of ownerOf) extra.set(owner, (extra.get(owner) ?? 0) + found[lobe].areaVSamples)
-  return found.flatMap((m, i) => (ownerOf.has(i) ? [] : [{ ...m, areaVSamples: m.areaVSamples + (extra.get(i) ?? 0) }]))
 }
 
 function orientedFraction(positionFsr: number, direction: 'up' | 'down' | 'unknown'): number {

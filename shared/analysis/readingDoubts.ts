@@ -1,6 +1,7 @@
 import { lengthForGouyPhase, type CavityGeometry } from '../cavity'
 import type { EngineWarning } from '../errors'
 import type { SpectrumReading } from '../orders/readSpectrum'
+import type { AnalysisPeak } from './types'
 import { fmt } from '../numbers'
 
 /**
@@ -104,4 +105,15 @@ export function readingDoubts(input: {
     })
   }
   return { warnings, alternative, impliedLengthMm }
+}
+
+/** Height of the unassigned peaks over the height of all peaks listed (0 with none). */
+export function unassignedShareOf(peaks: AnalysisPeak[]): number {
+  let all = 0
+  let unassigned = 0
+  for (const p of peaks) {
+    all += Math.max(0, p.height)
+    if (p.kind === 'unassigned') unassigned += Math.max(0, p.height)
+  }
+  return all > 0 ? unassigned / all : 0
 }

@@ -64,13 +64,16 @@ export function calibrateSweep(timesSeconds: number[], fsrIndex: number[], optio
   }
 }
 
+/** The part of a calibration that maps time to frequency. */
+export type SweepMap = Pick<SweepCalibration, 'coefficients' | 't0Seconds' | 'scaleSeconds'>
+
 /** Optical frequency in FSR units at time t. */
-export function frequencyAt(calibration: SweepCalibration, tSeconds: number): number {
+export function frequencyAt(calibration: SweepMap, tSeconds: number): number {
   return polyval(calibration.coefficients, (tSeconds - calibration.t0Seconds) / calibration.scaleSeconds)
 }
 
 /** Local sweep rate dν/dt in FSR per second at time t. */
-export function sweepRateAt(calibration: SweepCalibration, tSeconds: number): number {
+export function sweepRateAt(calibration: SweepMap, tSeconds: number): number {
   const u = (tSeconds - calibration.t0Seconds) / calibration.scaleSeconds
   const c = calibration.coefficients
   let d = 0

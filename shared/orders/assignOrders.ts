@@ -1,3 +1,4 @@
+import { frac, signedCircular } from '../numbers'
 import { predictOrderOffsets } from './predictOrderOffsets'
 
 /** A resonance placed on the optical-frequency axis. */
@@ -211,13 +212,4 @@ function refineGouy(peaks: PlacedPeak[], labels: OrderLabel[], gouy: number, pre
   if (den === 0) return gouy
   const next = gouy + Math.PI * (num / den)
   return Math.min(predicted + maxShift, Math.max(predicted - maxShift, next))
-}
-
-function frac(x: number): number {
-  return x - Math.floor(x)
-}
-
-/** Distance on the FSR circle, in (−0.5, 0.5]. */
-function signedCircular(d: number): number {
-  return d - Math.round(d)
 }

@@ -1,6 +1,6 @@
-import { calibrateSweep, type SweepCalibration } from '../calibration/calibrateSweep'
+import { calibrateSweep, frequencyAt, type SweepCalibration } from '../calibration/calibrateSweep'
 import { frac, median } from '../numbers'
-import { calibrateFromChains, polyval, spacingOf, straightSweep } from './reading/calibrateFromChains'
+import { calibrateFromChains, spacingOf, straightSweep } from './reading/calibrateFromChains'
 import { chainsFrom, linkFamilies, periodCandidates, type Link } from './reading/periodCandidates'
 import { hypotheses, missingLineCost, type Hypothesis } from './reading/scoreReadings'
 import { familiesFrom, markOrphans, markSatellites, type Family } from './reading/spectrumFamilies'
@@ -122,7 +122,7 @@ export function readSpectrum(peaks: SpectrumPeak[], options: ReadSpectrumOptions
         ? calibrateSweep(comb.members.map((i) => peaks[i].tSeconds), comb.fsrIndex)
         : calibrateFromChains(peaks, chains, period.seconds)
     if (!calibration) continue
-    const nu = peaks.map((p) => polyval(calibration.coefficients, (p.tSeconds - calibration.t0Seconds) / calibration.scaleSeconds))
+    const nu = peaks.map((p) => frequencyAt(calibration, p.tSeconds))
     const linewidthFsr = Math.max(width / period.seconds, 1e-5)
     const families = familiesFrom(peaks, nu, chains, Math.max(linewidthFsr, calibration.residualRmsFsr), 0.25, sigmaV)
     markOrphans(families, nu, calibration, startSeconds, endSeconds, sigmaV)
@@ -136,7 +136,7 @@ export function readSpectrum(peaks: SpectrumPeak[], options: ReadSpectrumOptions
       const reading = finish(h, families, peaks, nu, calibration, period.seconds, links.length)
       if (period.ladder) reading.cost += NO_REPEAT_COST
       reading.satelliteOffsetFsr = satelliteOffsetFsr === null ? null : h.direction * satelliteOffsetFsr
-      reading.cost += missingLineCost(reading, families, h, nu, calibration, { startSeconds, endSeconds, tallest, sigmaV, linewidthFsr, marginFsr: period.ladder ? 0.15 : 0.02 })
+      reading.cost += missingLineCost(families, h, nu, calibration, { startSeconds, endSeconds, tallest, sigmaV, linewidthFsr, marginFsr: period.ladder ? 0.15 : 0.02 })
       readings.push(reading)
     }
   }

@@ -1,3 +1,4 @@
+import type { MeasuredResonance } from './measureResonances'
 import { EngineError } from '../errors'
 import { median } from '../numbers'
 
@@ -263,4 +264,11 @@ function assertPeaks(peaks: StructurePeak[]): void {
     if (!(p.heightV > 0)) throw new EngineError('invalid_argument', `peak ${i} must have heightV above 0, got ${p.heightV}`)
     if (p.widthSeconds < 0) throw new EngineError('invalid_argument', `peak ${i} must have widthSeconds of 0 or more, got ${p.widthSeconds}`)
   })
+}
+
+/** The resonances less the lobes of fast structure, each lobe's area added to the resonance it follows. */
+export function foldLobes(found: MeasuredResonance[], ownerOf: Map<number, number>): MeasuredResonance[] {
+  const extra = new Map<number, number>()
+  for (const [lobe, owner] of ownerOf) extra.set(owner, (extra.get(owner) ?? 0) + found[lobe].areaVSamples)
+  return found.flatMap((m, i) => (ownerOf.has(i) ? [] : [{ ...m, areaVSamples: m.areaVSamples + (extra.get(i) ?? 0) }]))
 }

@@ -1,3 +1,4 @@
+import { median } from '../numbers'
 import type { SweepSelection } from './selectSweep'
 
 /** A tall resonance seen in the whole record. */
@@ -57,10 +58,4 @@ export function findSweepInData(peaks: TallPeak[], sampleCount: number, options:
     evidence: `No ramp channel: the sweep was found from the data (${run.length} tall resonances of one width; ${tall.length - run.length} narrower or wider ones, on the flyback or turnaround, were left out).`,
     segmentCount: runs.length,
   }
-}
-
-function median(values: number[]): number {
-  const s = values.slice().sort((a, b) => a - b)
-  const m = s.length >> 1
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2
 }

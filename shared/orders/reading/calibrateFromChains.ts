@@ -1,4 +1,4 @@
-import type { SweepCalibration } from '../../calibration/calibrateSweep'
+import { frequencyAt, sweepRateAt, type SweepCalibration } from '../../calibration/calibrateSweep'
 import { median } from '../../numbers'
 import type { SpectrumPeak } from '../readSpectrum'
 
@@ -29,18 +29,13 @@ export function calibrateFromChains(peaks: SpectrumPeak[], chains: number[][], p
   const c = weightedLeastSquares(rows, degree)
   if (!c || !(c[0] > 0)) return null
   const coefficients = [0, ...c]
-  const rate = (t: number) => {
-    const u = (t - t0Seconds) / scaleSeconds
-    let d = 0
-    for (let m = coefficients.length - 1; m >= 1; m--) d = d * u + m * coefficients[m]
-    return d / scaleSeconds
-  }
-  if (!(rate(lo) > 0 && rate(hi) > 0)) return null
+  const map = { coefficients, t0Seconds, scaleSeconds }
+  if (!(sweepRateAt(map, lo) > 0 && sweepRateAt(map, hi) > 0)) return null
   const spacings = chains.flatMap((ch) => ch.slice(1).map((j, k) => peaks[j].tSeconds - peaks[ch[k]].tSeconds)).sort((a, b) => a - b)
   let ss = 0
   let n = 0
   for (const chain of chains) {
-    const nu = chain.map((i) => polyval(coefficients, (peaks[i].tSeconds - t0Seconds) / scaleSeconds))
+    const nu = chain.map((i) => frequencyAt(map, peaks[i].tSeconds))
     const offset = nu.reduce((s, v, k) => s + v - k, 0) / nu.length
     nu.forEach((v, k) => {
       ss += (v - k - offset) ** 2
@@ -89,11 +84,7 @@ export function spacingOf(times: number[], fsrIndex: number[], calibration: Swee
       spacingRangeSeconds: [spacings[0], spacings[spacings.length - 1]],
     }
   }
-  const u = (times[0] - calibration.t0Seconds) / calibration.scaleSeconds
-  const c = calibration.coefficients
-  let d = 0
-  for (let m = c.length - 1; m >= 1; m--) d = d * u + m * c[m]
-  const local = calibration.scaleSeconds / d
+  const local = 1 / sweepRateAt(calibration, times[0])
   return { fsrSeconds: local, meanSpacingSeconds: local, spacingRangeSeconds: [local, local] }
 }
 
@@ -119,10 +110,4 @@ function weightedLeastSquares(rows: { x: number[]; y: number; w: number }[], siz
     }
   }
   return a.map((row, r) => row[size] / row[r])
-}
-
-export function polyval(c: number[], u: number): number {
-  let v = 0
-  for (let k = c.length - 1; k >= 0; k--) v = v * u + c[k]
-  return v
 }

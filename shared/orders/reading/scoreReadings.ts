@@ -1,7 +1,5 @@
-import type { SweepCalibration } from '../../calibration/calibrateSweep'
+import { frequencyAt, type SweepCalibration } from '../../calibration/calibrateSweep'
 import { frac, signedCircular } from '../../numbers'
-import type { SpectrumReading } from '../readSpectrum'
-import { polyval } from './calibrateFromChains'
 import type { Family } from './spectrumFamilies'
 
 export interface Hypothesis {
@@ -152,7 +150,6 @@ function scoreHypothesis(families: Family[], base: number, direction: 1 | -1, ps
  * TEM00 ladder read as a comb predicts lines where there are none.
  */
 export function missingLineCost(
-  reading: SpectrumReading,
   families: Family[],
   h: Hypothesis,
   nu: number[],
@@ -160,7 +157,7 @@ export function missingLineCost(
   span: { startSeconds: number; endSeconds: number; tallest: number; sigmaV: number; linewidthFsr: number; marginFsr: number },
 ): number {
   const origin = families[h.fundamental].phase
-  const at = (t: number) => polyval(calibration.coefficients, (t - calibration.t0Seconds) / calibration.scaleSeconds) - origin
+  const at = (t: number) => frequencyAt(calibration, t) - origin
   const margin = span.marginFsr
   const placed = nu.map((v) => v - origin).sort((a, b) => a - b)
   // Only where the sweep is calibrated (between the resonances seen, half an FSR beyond): past that it is extrapolated.
@@ -185,7 +182,6 @@ export function missingLineCost(
     }
     cost += Math.min(missing, (1.5 * height) / span.tallest)
   }
-  void reading
   return cost
 }
 

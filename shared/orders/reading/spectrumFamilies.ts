@@ -1,7 +1,6 @@
-import type { SweepCalibration } from '../../calibration/calibrateSweep'
+import { frequencyAt, type SweepCalibration } from '../../calibration/calibrateSweep'
 import { frac, median, signedCircular } from '../../numbers'
 import type { SpectrumPeak } from '../readSpectrum'
-import { polyval } from './calibrateFromChains'
 import { alike } from './periodCandidates'
 
 /** A family: resonances at one place mod 1 FSR (one transverse order, or a sideband), with its typical height. */
@@ -38,7 +37,7 @@ export function familiesFrom(peaks: SpectrumPeak[], nu: number[], chains: number
 }
 
 export function markOrphans(families: Family[], nu: number[], calibration: SweepCalibration, startSeconds: number, endSeconds: number, sigmaV: number): void {
-  const at = (t: number) => polyval(calibration.coefficients, (t - calibration.t0Seconds) / calibration.scaleSeconds)
+  const at = (t: number) => frequencyAt(calibration, t)
   const lo = Math.max(at(startSeconds) + 0.03, Math.min(...nu) - 0.5)
   const hi = Math.min(at(endSeconds) - 0.03, Math.max(...nu) + 0.5)
   const weakest = Math.min(...families.map((f) => f.heightV))

@@ -26,15 +26,10 @@ export interface SessionOutcome {
   /** Resonances labelled with an order ≥ 1 (the ones that measure the Gouy phase). */
   transverseLabels: number
   warnings: string[]
-  /** True when the result warns that its reading may be wrong (`ambiguous_reading`, `geometry_mismatch`, …). */
-  flagged: boolean
   /** Length the result says the data implies, mm (null when it says none). */
   impliedLengthMm: number | null
   row: string
 }
-
-/** Warning codes that tell the user the reading itself may be wrong. */
-export const DOUBT_CODES = ['ambiguous_reading', 'comb_or_ladder', 'single_fundamental', 'many_unassigned']
 
 /** Generates, analyses and scores one session case. */
 export function evaluateSessionCase(k: number, c: SessionCase): SessionOutcome {
@@ -64,7 +59,6 @@ export function evaluateSessionCase(k: number, c: SessionCase): SessionOutcome {
   const warnings = result?.warnings.map((w) => w.code) ?? []
   const implied = result?.warnings.find((w) => w.code === 'geometry_mismatch')?.message.match(/([0-9.]+) mm/)
   const impliedLengthMm = implied ? Number(implied[1]) : null
-  const flagged = warnings.some((w) => DOUBT_CODES.includes(w))
   const o = c.options
   const row = [
     k,
@@ -85,7 +79,7 @@ export function evaluateSessionCase(k: number, c: SessionCase): SessionOutcome {
     warnings.join(' ') || '-',
   ].join(' | ')
   const truthTem00Count = truth.peaks.filter((p) => p.kind === 'carrier' && p.order === 0).length
-  return { k, effect: c.effect, truthFraction: truth.fundamentalFraction, truthTem00Count, foundFraction: found, refusal, errorPoints, fsrError, finesseError, labelsOnNothing, mislabels, transverseLabels, warnings, flagged, impliedLengthMm, row: `| ${row} |` }
+  return { k, effect: c.effect, truthFraction: truth.fundamentalFraction, truthTem00Count, foundFraction: found, refusal, errorPoints, fsrError, finesseError, labelsOnNothing, mislabels, transverseLabels, warnings, impliedLengthMm, row: `| ${row} |` }
 }
 
 /**
