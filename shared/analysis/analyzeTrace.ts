@@ -316,7 +316,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     measuredGouyRad: calibration && gouyFromData ? gouy : null,
     transverseCount: labels.filter((l) => l.kind === 'carrier' && l.order !== null && l.order > 0).length,
     directionGiven: options.sweepDirection !== undefined,
-    unassignedHeightShare: lineModelFailed ? 1 : unassignedShareOf(peaks),
+    unassignedHeightShare: unassignedShareOf(peaks),
+    lineModelFailed,
     lineModelChiSquare: shares.reducedChiSquare,
   })
   const warnings: EngineWarning[] = [

@@ -55,6 +55,8 @@ export function readingDoubts(input: {
   directionGiven: boolean
   /** Height of the peaks left unassigned over the height of all peaks listed. */
   unassignedHeightShare: number
+  /** The line model found no TEM00 power where the reading put it (shares then come from the peaks' areas). */
+  lineModelFailed: boolean
   /** Reduced χ² of the line model (null when it could not be set up). */
   lineModelChiSquare: number | null
 }): ReadingDoubts {
@@ -85,11 +87,14 @@ export function readingDoubts(input: {
   // comb was taken as TEM00 as a last resort: in doubt too when it leaves resonances unexplained.
   if (!alternative) {
     const poorModel = input.lineModelChiSquare === null || input.lineModelChiSquare >= POOR_MODEL_CHI_SQUARE
-    const unexplained = input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel)
+    const unexplained = input.lineModelFailed || input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel)
     if (unexplained) {
+      const what = input.lineModelFailed
+        ? 'the line model finds no TEM00 power where the reading puts TEM00, so the resonances were counted one by one'
+        : `${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place`
       warnings.push({
         code: 'ambiguous_reading',
-        message: `No reading of the resonances explains them well: ${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place${input.lineModelChiSquare !== null ? `, and the line model fits the samples with χ²ᵥ = ${fmt(input.lineModelChiSquare)}` : ''}. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would help: a sweep over two or more FSRs, a check of the cavity length and radii, and a look at the trace for fine structure (a ringing detector, a laser on two modes).`,
+        message: `No reading of the resonances explains them well: ${what}${input.lineModelChiSquare !== null ? `, and the line model fits the samples with χ²ᵥ = ${fmt(input.lineModelChiSquare)}` : ''}. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would help: a sweep over two or more FSRs, a check of the cavity length and radii, and a look at the trace for fine structure (a ringing detector, a laser on two modes).`,
       })
     }
   }
