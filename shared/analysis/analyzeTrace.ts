@@ -26,7 +26,7 @@ import { finesseFromRingdown, ringLobes, sweepSpeedOf } from './finesseFromRingd
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings, SWEEP_SPEED_RINGING } from './collectWarnings'
-import { readingDoubts, unassignedShareOf } from './readingDoubts'
+import { readingDoubts, unsteadyOrder, unassignedShareOf } from './readingDoubts'
 import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 
 /** Highest transverse order the assignment considers. */
@@ -256,6 +256,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
         firstIndex: window.first, lastIndex: window.last,
         startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, samplesPerLinewidth,
         preferHeight: samplesPerLinewidth >= 6 && !fastStructure,
+        quantumV,
       })
   // A finesse of a few means no line shape to model (a reading whose calibration went astray): count areas instead.
   let shares = calibration && finesse && finesse.value >= MIN_MODEL_FINESSE && window ? measureOrSkip(() => lineModel(calibration!, finesse!, window)) : null
@@ -319,6 +320,9 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     unassignedHeightShare: unassignedShareOf(peaks),
     lineModelFailed,
     lineModelChiSquare: shares.reducedChiSquare,
+    calibrated: calibration !== null,
+    // (Heights compare only on well-sampled lines without fast structure.)
+    unsteady: samplesPerLinewidth >= 4 && !fastStructure && !structure.ownerOf.size ? unsteadyOrder(peaks, sigmaV) : null,
   })
   const warnings: EngineWarning[] = [
     ...trace.warnings,

@@ -141,6 +141,37 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   return { lines: result, offsetV, reducedChiSquare: used > p ? rss / (sigmaV * sigmaV * (used - p)) : NaN, covariance }
 }
 
+/**
+ * The lines' part of the model at each sample, Σⱼ hⱼ·line(ν − νⱼ), without the background: the same Airy shape and
+ * support as {@link fitOrderPowers} uses.
+ */
+export function lineModelValues(
+  nu: Float64Array,
+  lines: PredictedLine[],
+  heightsV: ArrayLike<number>,
+  options: Pick<FitOrderPowersOptions, 'finesse' | 'sidebands' | 'supportLinewidths'>,
+): Float64Array {
+  const { finesse, sidebands = null, supportLinewidths = 15 } = options
+  const shape: LineShape = {
+    k2: ((2 * finesse) / Math.PI) ** 2,
+    delta: sidebands && sidebands.ratio > 0 ? sidebands.offsetFsr : 0,
+    ratio: sidebands && sidebands.ratio > 0 ? sidebands.ratio : 0,
+  }
+  const support = Math.min(0.5, supportLinewidths / finesse) + shape.delta
+  const order = lines.map((_, j) => j).sort((a, b) => lines[a].nu - lines[b].nu)
+  const out = new Float64Array(nu.length)
+  let first = 0
+  for (let i = 0; i < nu.length; i++) {
+    const v = nu[i]
+    if (!(v - v === 0)) continue
+    while (first < order.length && lines[order[first]].nu < v - support) first++
+    let sum = 0
+    for (let s = first; s < order.length && lines[order[s]].nu <= v + support; s++) sum += heightsV[order[s]] * unitLine(v - lines[order[s]].nu, shape)
+    out[i] = sum
+  }
+  return out
+}
+
 /** Airy line 1/(1 + k² sin²(πz)) with optional sidebands of relative power `ratio` at ±delta. */
 interface LineShape {
   k2: number

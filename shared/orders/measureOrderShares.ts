@@ -3,6 +3,7 @@ import type { SweepCalibration } from '../calibration/calibrateSweep'
 import { EngineError } from '../errors'
 import { goldenSectionMinimum } from '../fit/goldenSectionMinimum'
 import { parabolicMinimum } from '../fit/parabolicMinimum'
+import { COARSE_DIGITISER_SIGMA, fitAboveFloor } from './fitAboveFloor'
 import { fitOrderPowers, type PredictedLine } from './fitOrderPowers'
 import { lineProblem, orderHeightSums, SUPPORT_LINEWIDTHS } from './lineProblem'
 import { searchSplit, splitLines, transverseMisfit } from './searchSplit'
@@ -34,6 +35,8 @@ export interface ShareInputs {
   startSeconds: number
   dtSeconds: number
   preferHeight: boolean
+  /** The digitiser step found in the record, volts (0 or absent when none). */
+  quantumV?: number
   /** Look for orders split by astigmatism (see splitLines): the sample windows widen by this much, FSR. @default 0 (no search) */
   splitReachFsr?: number
 }
@@ -125,7 +128,13 @@ export function measureOrderShares(input: ShareInputs): Shares {
     const curvature = fp - 2 * f0 + fm
     if (curvature > 0) fittedFinesse *= Math.exp(Math.min(h, Math.max(-h, (-h * (fp - fm)) / (2 * curvature))))
   }
-  const fit = fitWith(fittedFinesse, sidebands, all)
+  let fit = fitWith(fittedFinesse, sidebands, all)
+  const q = input.quantumV ?? 0
+  if (q > 0 && input.sigmaV < COARSE_DIGITISER_SIGMA * q) {
+    fit = fitAboveFloor(fit, all, lines, q, (on) => fitWith(fittedFinesse, sidebands, on, false), {
+      finesse: fittedFinesse, sidebands, supportLinewidths: (SUPPORT_LINEWIDTHS / finesse + 2 * reachFsr) * fittedFinesse,
+    })
+  }
   const useHeight = input.preferHeight && fit.reducedChiSquare <= MAX_LINE_CHI_SQUARE
   const m = lines.length
   // Per order: the summed heights with their covariance (the matched filter: the best detector in white noise)
