@@ -19,6 +19,14 @@ const POOR_READING_COST = 0.28
 /** … is in doubt when the line model also misfits the samples this badly (χ²ᵥ). */
 const POOR_MODEL_CHI_SQUARE = 10
 
+/** The resonances of one order differing in height by more than this factor put the reading in doubt … */
+const UNSTEADY_ORDER_RATIO = 2
+/** … when the taller stands this many σ above the noise and the two differ by this many σ (5σ, common practice). */
+const UNSTEADY_ORDER_SIGMAS = 5
+
+/** … comparing only resonances whose widths agree within this factor (crossed at the same sweep speed). */
+const SAME_WIDTH = 1.5
+
 /** The data's Gouy phase must differ from the geometry's by more than this (relative) to call the geometry wrong. */
 const GOUY_MISMATCH = 0.015
 
@@ -59,6 +67,10 @@ export function readingDoubts(input: {
   lineModelFailed: boolean
   /** Reduced χ² of the line model (null when it could not be set up). */
   lineModelChiSquare: number | null
+  /** False when the time axis could not be calibrated (one TEM00 and nothing that repeats). */
+  calibrated: boolean
+  /** Orders whose labelled resonances differ in height far beyond the noise (see unsteadyOrder); null when none. */
+  unsteady: UnsteadyOrder | null
 }): ReadingDoubts {
   const warnings: EngineWarning[] = []
   const [best, ...others] = input.readings
@@ -87,11 +99,16 @@ export function readingDoubts(input: {
   // comb was taken as TEM00 as a last resort: in doubt too when it leaves resonances unexplained.
   if (!alternative) {
     const poorModel = input.lineModelChiSquare === null || input.lineModelChiSquare >= POOR_MODEL_CHI_SQUARE
-    const unexplained = input.lineModelFailed || input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel)
+    const unexplained = input.lineModelFailed || input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel) || input.unsteady !== null || !input.calibrated
     if (unexplained) {
-      const what = input.lineModelFailed
+      const u = input.unsteady
+      const what = !input.calibrated
+        ? 'the sweep could not be calibrated (one TEM00 in view and no family of resonances that repeats), so no order could be placed and the fraction is TEM00 against the resonances seen'
+        : input.lineModelFailed
         ? 'the line model finds no TEM00 power where the reading puts TEM00, so the resonances were counted one by one'
-        : `${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place`
+        : u && input.unassignedHeightShare < UNASSIGNED_DOUBT
+          ? `the resonances read as ${u.order === 0 ? 'TEM00' : `order ${u.order}`} differ in height ${fmt(u.ratio)}-fold (${u.tallerV.toPrecision(2)} V and ${u.lowerV.toPrecision(2)} V), while one mode resonates once every FSR with one height: the period or the orders may be misread`
+          : `${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place`
       warnings.push({
         code: 'ambiguous_reading',
         message: `No reading of the resonances explains them well: ${what}${input.lineModelChiSquare !== null ? `, and the line model fits the samples with χ²ᵥ = ${fmt(input.lineModelChiSquare)}` : ''}. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would help: a sweep over two or more FSRs, a check of the cavity length and radii, and a look at the trace for fine structure (a ringing detector, a laser on two modes).`,
@@ -110,6 +127,38 @@ export function readingDoubts(input: {
     })
   }
   return { warnings, alternative, impliedLengthMm }
+}
+
+export interface UnsteadyOrder {
+  order: number
+  ratio: number
+  tallerV: number
+  lowerV: number
+}
+
+/**
+ * The order whose labelled resonances differ most in height, when the tallest of them stands UNSTEADY_ORDER_SIGMAS σ
+ * clear, the two differ by as much, and by more than UNSTEADY_ORDER_RATIO (drift of the laser power moves heights by
+ * some per cent, not twofold). Only meaningful when heights compare: enough samples per linewidth, no fast structure,
+ * the same width.
+ */
+export function unsteadyOrder(peaks: AnalysisPeak[], sigmaV: number): UnsteadyOrder | null {
+  const byOrder = new Map<number, AnalysisPeak[]>()
+  for (const p of peaks) if (p.kind === 'carrier' && p.order !== null) byOrder.set(p.order, [...(byOrder.get(p.order) ?? []), p])
+  let worst: UnsteadyOrder | null = null
+  for (const [order, members] of byOrder) {
+    const taller = members.reduce((a, b) => (b.height > a.height ? b : a))
+    // Only resonances crossed at the same speed compare: one cut by the end of the record, or crossed during a
+    // flyback or past a turn of the sweep, has another width and another height.
+    const alike = members.filter((p) => p !== taller && p.fwhmSeconds >= taller.fwhmSeconds / SAME_WIDTH && p.fwhmSeconds <= taller.fwhmSeconds * SAME_WIDTH)
+    if (alike.length === 0) continue
+    const tallerV = taller.height
+    const lowerV = Math.max(Math.min(...alike.map((p) => p.height)), 0)
+    const ratio = lowerV > 0 ? tallerV / lowerV : Infinity
+    if (tallerV < UNSTEADY_ORDER_SIGMAS * sigmaV || tallerV - lowerV < UNSTEADY_ORDER_SIGMAS * sigmaV || !(ratio > UNSTEADY_ORDER_RATIO)) continue
+    if (!worst || ratio > worst.ratio) worst = { order, ratio, tallerV, lowerV }
+  }
+  return worst
 }
 
 /** Height of the unassigned peaks over the height of all peaks listed (0 with none). */
