@@ -264,11 +264,16 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   // are then counted one by one, and the doubt is reported below.
   const lineModelFailed = calibration !== null && finesse !== null && window !== null && shares === null
   if (!shares) shares = (calibration && window && peakAreaShares(measured, labels, positions, calibration, [window.first, window.last], toleranceFsr, dt, tOf)) || fundamentalOnlyShares(measured, comb.members)
+  // (The line model's own fraction, kept to compare with the fallback's.)
+  let modelFraction: number | null = null
   if (calibration && shares.reducedChiSquare !== null && shares.reducedChiSquare > MAX_MODEL_CHI_SQUARE) {
     // The lines do not follow one shared shape (split, ringing or distorted resonances, a poorly followed sweep):
     // fall back to the integrated power of each resonance found, wherever it sits.
     const fallback = peakAreaShares(measured, labels, positions, calibration, [window!.first, window!.last], toleranceFsr, dt, tOf)
-    if (fallback) shares = { ...fallback, reducedChiSquare: shares.reducedChiSquare }
+    if (fallback) {
+      modelFraction = shares.fundamentalFraction
+      shares = { ...fallback, reducedChiSquare: shares.reducedChiSquare }
+    }
   }
   const { orders, fundamentalFraction } = shares
   const useHeight = shares.measure === 'height'
@@ -321,6 +326,9 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     lineModelFailed,
     lineModelChiSquare: shares.reducedChiSquare,
     calibrated: calibration !== null,
+    wholePeriodCounted: calibration === null || window !== null,
+    fundamentalCount: comb.members.length,
+    lineModelFraction: modelFraction,
     // (Heights compare only on well-sampled lines without fast structure.)
     unsteady: samplesPerLinewidth >= 4 && !fastStructure && !structure.ownerOf.size ? unsteadyOrder(peaks, sigmaV) : null,
   })
@@ -361,6 +369,9 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       orders,
       orderResidualRmsFsr: orderResidual,
       calibrated: calibration !== null,
+    wholePeriodCounted: calibration === null || window !== null,
+    fundamentalCount: comb.members.length,
+    lineModelFraction: modelFraction,
       sweepSpeed: sweepSpeed?.speed ?? null,
       ringdownFinesse: ringdown && apparentFinesse !== null ? { value: ringdown.value, apparent: apparentFinesse } : null,
       spikeTrains: tall.spikeTrains === true,
