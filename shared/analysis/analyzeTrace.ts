@@ -17,6 +17,7 @@ import { chooseComb, unlessLadder } from '../orders/chooseComb'
 import { orderFamilies } from '../orders/orderFamilies'
 import { assignOrders, type OrderLabel } from '../orders/assignOrders'
 import { directionByLineModel } from '../orders/directionByLineModel'
+import { gouyByFolding } from '../orders/gouyByFolding'
 import { MAX_LINE_CHI_SQUARE, MAX_MODEL_CHI_SQUARE, measureOrderShares } from '../orders/measureOrderShares'
 import { fundamentalOnlyShares, peakAreaShares } from '../orders/peakAreaShares'
 import { readSpectrum } from '../orders/readSpectrum'
@@ -45,6 +46,13 @@ const MIN_MODEL_FINESSE = 3
 const LABEL_SIGNIFICANCE = 5
 /** … or this many σ when its order is reported (the matched filter over all FSRs finds it). */
 const REPORT_SIGNIFICANCE_PEAK = 3
+/**
+ * The folded weak lines set ψ when they explain this much more χ² there than at the geometry's ψ (25: a 5σ line,
+ * common practice for a detection among many trials).
+ */
+const FOLDED_SIGNIFICANCE = 25
+/** … and the other direction's best phase explains this much less (3σ), or the reading is mirrored. */
+const FOLDED_MIRROR_MARGIN = 9
 /** A reading's mirror image must cost this much more (in units of the tallest resonance's height) to settle the direction. */
 const DIRECTION_COST = 0.03
 
@@ -151,6 +159,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   let direction: 'up' | 'down' | 'unknown' = 'unknown'
   let directionEvidence = 'Fewer than two TEM00 resonances: the optical sweep direction is unknown.'
   let gouy = readingGouy
+  let gouyFolded = false
+  let gouyMirrored = false
   let orderResidual: number | null = null
   if (calibration) {
     const firstCalibration: SweepCalibration = calibration
@@ -224,6 +234,38 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     labels = assignment.labels
     direction = assignment.direction
     orderResidual = assignment.residualRmsFsr
+    // 7b. Weak orders: when no resonance was found at a low order's place to measure ψ, the lines summed over every
+    // FSR may still hold it (a wrong length entered and a well-matched beam: the weak orders then sit off their
+    // predicted places and would be measured as nothing). Not on lines reshaped by fast structure or a slow
+    // detector: a distorted TEM00 leaves lobes at fixed places.
+    const lowOrderFound = labels.some((l) => l.kind === 'carrier' && l.order !== null && l.order > 0 && l.order <= ALWAYS_MEASURED_ORDERS)
+    const speed = sweepSpeedOf(calibration, model, finesse?.value ?? null)
+    const reshaped = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3) || structure.ownerOf.size > 0 || (speed !== null && speed.speed >= SWEEP_SPEED_RINGING)
+    if (finesse && comb.members.length >= 2 && !lowOrderFound && !reshaped) {
+      const span = windowOf(calibration, direction, gouy)
+      const folded = gouyByFolding({
+        signal, sigmaV, calibration, startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, firstIndex: span.firstIndex, lastIndex: span.lastIndex,
+        direction, finesse: finesse.value, predictedGouyRad: gouy, bothDirections: options.sweepDirection === undefined,
+      })
+      if (folded && folded.chiSquareExplained - folded.chiSquareAtPredicted >= FOLDED_SIGNIFICANCE && Math.abs(folded.gouyRad / gouy - 1) > 0.002) {
+        // Read the other way, orders N at 1 − N·ψ′/π may meet the same lines (orders 2 and 4 on 1 and 2): the lines
+        // are then measured all the same, but neither ψ nor the direction is claimed.
+        const mirrored = folded.mirror !== null && folded.chiSquareExplained - folded.mirror.chiSquareExplained < FOLDED_MIRROR_MARGIN
+        gouy = folded.gouyRad
+        gouyFolded = !mirrored
+        gouyMirrored = mirrored
+        if (folded.direction !== direction || mirrored) {
+          directionEvidence = mirrored
+            ? `No transverse resonance stands out on its own; summed over every FSR the weak orders stand at their places read either way (sweep ${folded.direction} with ψ = ${folded.gouyRad.toFixed(3)} rad, or ${folded.direction === 'up' ? 'down' : 'up'} with ψ = ${folded.mirror!.gouyRad.toFixed(3)} rad): the direction is not settled, and the weak orders are measured where either puts them.`
+            : `No transverse resonance stands out on its own; summed over every FSR the weak orders stand at their places read ${folded.direction}.`
+        }
+        direction = folded.direction
+        // The resonances found are labelled again at the places the phase found puts the orders.
+        const again = assign(calibration, gouy, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 0, [folded.direction])
+        labels = again.labels
+        orderResidual = again.residualRmsFsr
+      }
+    }
   } else {
     labels = measured.map((_, i) =>
       isFundamental.has(i) ? { kind: 'carrier', order: 0, residualFsr: 0 } : { kind: 'unassigned', order: null, residualFsr: NaN },
@@ -236,10 +278,10 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const lobeArea = new Map<number, number>()
   for (const [lobe, owner] of lobes) lobeArea.set(owner, (lobeArea.get(owner) ?? 0) + measured[lobe].areaVSamples)
 
+  const fastStructure = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3)
   // 8. Power per order: every order measured at its predicted place over whole FSR periods.
   const countedSpan = calibration ? windowOf(calibration, direction === 'down' ? 'down' : 'up', gouy) : null
   const window = countedSpan && countedSpan.lastIndex > countedSpan.firstIndex ? { first: countedSpan.firstIndex, last: countedSpan.lastIndex } : null
-  const fastStructure = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3)
   // (With areas, each extra order adds the noise of its whole window: only heights afford the far orders.)
   const poorMatch = reading !== null && reading.roughFraction < 0.8 && samplesPerLinewidth >= 6 && !fastStructure
   const ordersMeasured = measuredOrders(families.leaders, labels, poorMatch ? POOR_MATCH_MEASURED_ORDERS : ALWAYS_MEASURED_ORDERS)
@@ -319,7 +361,8 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     fundamentalFraction,
     cavity,
     predictedGouyRad: predictedGouy,
-    measuredGouyRad: calibration && gouyFromData ? gouy : null,
+    measuredGouyRad: calibration && (gouyFromData || gouyFolded) && !gouyMirrored ? gouy : null,
+    gouyFromWeakLines: gouyFolded,
     transverseCount: labels.filter((l) => l.kind === 'carrier' && l.order !== null && l.order > 0).length,
     directionGiven: options.sweepDirection !== undefined,
     unassignedHeightShare: unassignedShareOf(peaks),
@@ -399,7 +442,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     measureReason: useHeight
       ? `Fitted heights (${usedModel} lines at the predicted places, one shared linewidth): the resonances are well sampled (${fmt(samplesPerLinewidth)} samples per linewidth) and smooth.`
       : `Integrated power (area): ${fastStructure ? 'fast structure inside the resonances' : samplesPerLinewidth < 6 ? `only ${fmt(samplesPerLinewidth)} samples per linewidth` : 'the lines do not follow the fitted shape'} makes heights unreliable.`,
-    gouy: { predictedOneWayRad: predictedGouy, measuredOneWayRad: calibration ? gouy : null, impliedLengthMm: doubts.impliedLengthMm },
+    gouy: { predictedOneWayRad: predictedGouy, measuredOneWayRad: calibration && !gouyMirrored ? gouy : null, impliedLengthMm: doubts.impliedLengthMm },
     alternativeReading: doubts.alternative,
     peaks,
     sweep: {

@@ -67,6 +67,8 @@ export function readingDoubts(input: {
   cavity: CavityGeometry
   predictedGouyRad: number
   measuredGouyRad: number | null
+  /** True when ψ came from the weak lines folded over every FSR (see gouyByFolding), not from resonances found. */
+  gouyFromWeakLines?: boolean
   /** Transverse resonances whose places measured ψ (resonances of order ≥ 1 labelled). */
   transverseCount: number
   directionGiven: boolean
@@ -140,7 +142,7 @@ export function readingDoubts(input: {
     }
   }
   let impliedLengthMm: number | null = null
-  if (input.measuredGouyRad !== null && input.transverseCount >= 2 && Math.abs(input.measuredGouyRad / input.predictedGouyRad - 1) > GOUY_MISMATCH) {
+  if (input.measuredGouyRad !== null && (input.transverseCount >= 2 || input.gouyFromWeakLines) && Math.abs(input.measuredGouyRad / input.predictedGouyRad - 1) > GOUY_MISMATCH) {
     impliedLengthMm = lengthForGouyPhase(input.cavity, input.measuredGouyRad)
     const lengthText = impliedLengthMm !== null
       ? `With the entered mirror radii that is a length of ${impliedLengthMm.toFixed(1)} mm (entered: ${Number(input.cavity.lengthMm.toPrecision(6))} mm).`
