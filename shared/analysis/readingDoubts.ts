@@ -124,6 +124,13 @@ export function readingDoubts(input: {
     const unexplained = input.lineModelFailed || input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel) || input.unsteady !== null || !input.calibrated || !input.wholePeriodCounted || measuresDisagree
     if (unexplained) {
       const u = input.unsteady
+      // The lead names what is in doubt: the reading itself, or (the reading standing) only the measure of power.
+      const measureOnly = measuresDisagree && input.calibrated && input.wholePeriodCounted && input.unassignedHeightShare < UNASSIGNED_DOUBT
+      const lead = !input.calibrated || !input.wholePeriodCounted
+        ? 'The orders could not be counted'
+        : measureOnly
+          ? 'The resonances are read, but their power cannot be measured reliably'
+          : 'No reading of the resonances explains them well'
       const what = !input.calibrated
         ? 'the sweep could not be calibrated (one TEM00 in view and no family of resonances that repeats), so no order could be placed and the fraction is TEM00 against the resonances seen'
         : !input.wholePeriodCounted
@@ -137,7 +144,7 @@ export function readingDoubts(input: {
           : `${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place`
       warnings.push({
         code: 'ambiguous_reading',
-        message: `No reading of the resonances explains them well: ${what}${input.lineModelChiSquare !== null ? `, and the line model fits the samples with χ²ᵥ = ${fmt(input.lineModelChiSquare)}` : ''}. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would help: a sweep over two or more FSRs, a check of the cavity length and radii, and a look at the trace for fine structure (a ringing detector, a laser on two modes).`,
+        message: `${lead}: ${what}${input.lineModelChiSquare !== null ? `, and the line model fits the samples with χ²ᵥ = ${fmt(input.lineModelChiSquare)}` : ''}. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would help: a sweep over two or more FSRs, a check of the cavity length and radii, and a look at the trace for fine structure (a ringing detector, a laser on two modes).`,
       })
     }
   }
