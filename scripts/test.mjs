@@ -63,6 +63,9 @@ async function main() {
       await cluster.start()
       await cluster.createDatabase('cavitrace_template')
       env.CAVITRACE_TEST_PG = cluster.url('')
+      // For the test that a connection without the password is refused.
+      env.CAVITRACE_TEST_PG_BIN = cluster.bin
+      env.CAVITRACE_TEST_PG_SOCKET = cluster.socketDir
       env.CAVITRACE_TEST_TEMPLATE_DB = 'cavitrace_template'
       const migrated = run(bin('tsx'), ['scripts/prepare.ts'], { ...env, DATABASE_URL: cluster.url('cavitrace_template') })
       if (!migrated) throw new SetupError('could not migrate the test template database')

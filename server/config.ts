@@ -62,11 +62,15 @@ export const configSchema = z.object({
   /** How many times a crashed analysis job is retried. @default 2 */
   ANALYSIS_RETRY_LIMIT: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(0, 'must be 0 or more').max(10, 'must be at most 10').default(2),
   /**
-   * Secret that signs session cookies (at least 32 characters). Required in production. In development
-   * and tests a random secret is made once and kept in the database's app_settings, so sessions
-   * survive a restart.
+   * Secret that signs session cookies (at least 32 characters). Production needs it or
+   * SESSION_SECRET_FILE. Never kept in the database.
    */
   SESSION_SECRET: z.string().min(32, 'must be at least 32 characters (e.g. `openssl rand -hex 32`)').optional(),
+  /**
+   * A file holding that secret, readable by its owner only (mode 0600). `npm start` makes one in its data
+   * folder. Without this and SESSION_SECRET, development and test servers make a key per process.
+   */
+  SESSION_SECRET_FILE: z.string().min(1).optional(),
   /** How long a session lasts after signing in, in hours (not sliding: sign in again after it). @default 12 */
   SESSION_HOURS: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(24 * 30, 'must be at most 720').default(12),
   /** Failed sign-ins (and reset requests) allowed per client address per 15 minutes. @default 10 */
@@ -96,8 +100,8 @@ export const configSchema = z.object({
   /** Time zone of DIGEST_SCHEDULE, an IANA name. @default UTC */
   DIGEST_TIMEZONE: z.string().refine(isTimeZone, 'must be an IANA time zone such as UTC or Europe/Berlin').default('UTC'),
 }).superRefine((config, context) => {
-  if (config.NODE_ENV === 'production' && !config.SESSION_SECRET) {
-    context.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'is required in production (at least 32 random characters)' })
+  if (config.NODE_ENV === 'production' && !config.SESSION_SECRET && !config.SESSION_SECRET_FILE) {
+    context.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'is required in production (at least 32 random characters), or SESSION_SECRET_FILE naming a file that holds it' })
   }
   if (Boolean(config.CAVITRACE_ADMIN_EMAIL) !== Boolean(config.CAVITRACE_ADMIN_PASSWORD)) {
     const missing = config.CAVITRACE_ADMIN_EMAIL ? 'CAVITRACE_ADMIN_PASSWORD' : 'CAVITRACE_ADMIN_EMAIL'

@@ -43,12 +43,14 @@ export class PortInUseError extends Error {
 
 export async function startServer(config: AppConfig, options: { logger?: Logger } = {}): Promise<RunningServer> {
   const logger = options.logger ?? pino({ level: config.LOG_LEVEL })
+  // Read first: a bad secret file stops the start before anything else opens.
+  const sessionSecret = sessionSecretSource(config, logger)
   const db = createDb(config.DATABASE_URL, { logger })
   const capture: CaptureSmtp | undefined = mailCaptureOn(config) ? await startCaptureSmtp(db, logger) : undefined
   const mailer = createMailer(config, logger, { capturePort: capture?.port })
   let listeningUrl = ''
   const analysis = await startAnalysisService(config, { db, logger, threads: config.WORKER_THREADS })
-  const app = createApp({ config, db, logger, mailer, queue: analysis.queue, events: analysis.events, sessionSecret: sessionSecretSource(config, db, logger), publicUrl: () => publicBaseUrl(config, listeningUrl) })
+  const app = createApp({ config, db, logger, mailer, queue: analysis.queue, events: analysis.events, sessionSecret, publicUrl: () => publicBaseUrl(config, listeningUrl) })
   const alertMail = startAlertMailDispatcher({ db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) })
   const digest: DigestSchedule | null =
     config.DIGEST_SCHEDULE === 'off'

@@ -1,37 +1,40 @@
 /**
- * The key that signs session cookies. Production takes SESSION_SECRET from the environment (the
- * config refuses to start without it). Development and tests make a random one once and keep it in
- * app_settings, so sessions survive a restart without anyone having to configure a secret.
+ * The key that signs session cookies. It never lives in the database (a dump, or anyone who can read
+ * the database, must not be able to forge a session): it comes from SESSION_SECRET, or from the file
+ * SESSION_SECRET_FILE names (readable by its owner only; `npm start` makes one in the data folder).
+ * Without either (a development or test server started by hand) each process makes a random one, so
+ * sessions end when it restarts.
  */
 import { randomBytes } from 'node:crypto'
+import { readFileSync, statSync } from 'node:fs'
 import type { Logger } from 'pino'
-import type { AppConfig } from '../config'
-import type { Db } from '../db/knex'
+import { ConfigError, type AppConfig } from '../config'
 
-const settingKey = 'session_secret'
+/** Read a secret file, refusing one that other users could read or one too short to be a key. */
+export function readSecretFile(path: string): string {
+  let mode: number
+  try {
+    mode = statSync(path).mode
+  } catch {
+    throw new ConfigError(`SESSION_SECRET_FILE names ${path}, which does not exist`)
+  }
+  if ((mode & 0o077) !== 0) throw new ConfigError(`SESSION_SECRET_FILE ${path} can be read by other users; run "chmod 600 ${path}"`)
+  const secret = readFileSync(path, 'utf8').trim()
+  if (secret.length < 32) throw new ConfigError(`SESSION_SECRET_FILE ${path} must hold at least 32 characters`)
+  return secret
+}
 
-/** Returns a function that resolves the secret, reading (or creating) it at most once per process. */
-export function sessionSecretSource(config: AppConfig, db: Db, logger: Logger): () => Promise<string> {
-  if (config.SESSION_SECRET) {
-    const secret = config.SESSION_SECRET
-    return async () => secret
+/** The key of servers started without one: one per process, so instances in one process agree. */
+const processKey = randomBytes(32).toString('hex')
+
+/** Returns a function that resolves the secret (read once, at start). */
+export function sessionSecretSource(config: AppConfig, logger: Logger): () => Promise<string> {
+  let secret: string
+  if (config.SESSION_SECRET) secret = config.SESSION_SECRET
+  else if (config.SESSION_SECRET_FILE) secret = readSecretFile(config.SESSION_SECRET_FILE)
+  else {
+    secret = processKey
+    logger.warn('no SESSION_SECRET or SESSION_SECRET_FILE: sessions are signed with a key made for this process and end when it stops')
   }
-  let pending: Promise<string> | undefined
-  const load = async (): Promise<string> => {
-    const fresh = randomBytes(32).toString('hex')
-    // Insert-or-keep, so two processes starting together agree on one secret.
-    await db('app_settings').insert({ key: settingKey, value: JSON.stringify(fresh) }).onConflict('key').ignore()
-    const row = (await db('app_settings').where({ key: settingKey }).first()) as { value: unknown } | undefined
-    if (typeof row?.value !== 'string') throw new Error('app_settings.session_secret is missing or not a string')
-    logger.debug('session secret loaded from app_settings (development/test only)')
-    return row.value
-  }
-  return () => {
-    // A failed read (database down) is retried on the next request rather than cached.
-    pending ??= load().catch((error: unknown) => {
-      pending = undefined
-      throw error
-    })
-    return pending
-  }
+  return async () => secret
 }
