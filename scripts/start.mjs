@@ -4,7 +4,8 @@
 import { spawn, spawnSync } from 'node:child_process'
 import { readFileSync } from 'node:fs'
 import { join } from 'node:path'
-import { LocalPostgres, SetupError, assertPortFree, ensureNodeModules, ensurePostgres, projectRoot, say } from './lib/services.mjs'
+import { supervise } from './lib/supervise.mjs'
+import { LocalPostgres, SetupError, assertPortFree, ensureNodeModules, ensurePostgres, ownSecretFile, projectRoot, say } from './lib/services.mjs'
 
 const appPort = Number(process.env.PORT ?? 3000)
 const dbPort = Number(process.env.CAVITRACE_DB_PORT ?? 54329)
@@ -21,6 +22,51 @@ function runStep(label, command, args, env) {
   say(label)
   const result = spawnSync(command, args, { cwd: projectRoot, stdio: 'inherit', env })
   if (result.status !== 0) throw new SetupError(`${label.replace(/…$/, '')} failed (exit ${result.status})`)
+}
+
+let current = null
+let stopping = false
+
+function stopServer(signal) {
+  stopping = true
+  current?.kill(signal)
+}
+
+/** Start the server process, passing its output through (the listening line becomes our announcement). */
+function runServer(env) {
+  const server = spawn(tsx, ['server/main.ts'], { cwd: projectRoot, env, stdio: ['ignore', 'pipe', 'inherit'] })
+  current = server
+  server.stdout.on('data', (chunk) => {
+    const text = chunk.toString()
+    const match = /CAVITRACE_LISTENING (\S+)/.exec(text)
+    if (match) announce(match[1], env)
+    process.stdout.write(text.replace(/CAVITRACE_LISTENING \S+\n?/, ''))
+  })
+  return server
+}
+
+let announced = false
+function announce(url, env) {
+  if (announced) return say(`Cavitrace is running again at ${url}/`)
+  announced = true
+  say(`Cavitrace is running at ${url}/`)
+  if (env.NODE_ENV === 'development') {
+    const demo = demoSignIn()
+    say(`demo sign-in: password "${demo.password}" for any of`)
+    for (const email of demo.emails) say(`  ${email}`)
+    say(`mail the app sends is caught locally: Admin → Outbox (${url}/admin/outbox)`)
+  }
+  say('Ctrl-C stops the app and its database.')
+}
+
+/** Keep the server up: after a crash it starts again a second later, with the database left running. */
+function superviseServer(env) {
+  return supervise({
+    start: () => runServer(env),
+    isStopping: () => stopping,
+    onCrash: ({ exitCode, signal, givingUp }) =>
+      say(givingUp ? 'the server crashed 5 times within a minute; giving up (see the messages above)' : `the server stopped unexpectedly (${signal ?? `exit ${exitCode}`}); starting it again in 1 s, the database stays up…`),
+  })
 }
 
 async function main() {
@@ -40,29 +86,17 @@ async function main() {
   try {
     await cluster.createDatabase('cavitrace')
     const env = { ...process.env, NODE_ENV: process.env.NODE_ENV ?? 'development', DATABASE_URL: process.env.DATABASE_URL ?? cluster.url('cavitrace'), PORT: String(appPort) }
+    // The session-signing key lives beside the database's password, readable by this user only.
+    if (!env.SESSION_SECRET && !env.SESSION_SECRET_FILE) {
+      env.SESSION_SECRET_FILE = join(dataDir, 'session-secret')
+      ownSecretFile(env.SESSION_SECRET_FILE)
+    }
     runStep('migrating and seeding the database…', tsx, ['scripts/prepare.ts', '--seed'], env)
     if (process.env.CAVITRACE_SKIP_BUILD !== '1') runStep('building the client…', join(projectRoot, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'], env)
 
-    const server = spawn(tsx, ['server/main.ts'], { cwd: projectRoot, env, stdio: ['ignore', 'pipe', 'inherit'] })
-    server.stdout.on('data', (chunk) => {
-      const text = chunk.toString()
-      const match = /CAVITRACE_LISTENING (\S+)/.exec(text)
-      if (match) {
-        say(`Cavitrace is running at ${match[1]}/`)
-        if (env.NODE_ENV === 'development') {
-          const demo = demoSignIn()
-          say(`demo sign-in: password "${demo.password}" for any of`)
-          for (const email of demo.emails) say(`  ${email}`)
-          say(`mail the app sends is caught locally: Admin → Outbox (${match[1]}/admin/outbox)`)
-        }
-        say('Ctrl-C stops the app and its database.')
-      }
-      process.stdout.write(text.replace(/CAVITRACE_LISTENING \S+\n?/, ''))
-    })
-    const forward = (signal) => () => server.kill(signal)
-    process.on('SIGINT', forward('SIGINT'))
-    process.on('SIGTERM', forward('SIGTERM'))
-    const code = await new Promise((resolve) => server.on('exit', (exitCode) => resolve(exitCode ?? 0)))
+    process.on('SIGINT', () => stopServer('SIGINT'))
+    process.on('SIGTERM', () => stopServer('SIGTERM'))
+    const code = await superviseServer(env)
     stopDatabase()
     process.exit(code)
   } catch (error) {

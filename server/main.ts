@@ -25,6 +25,8 @@ async function main(): Promise<void> {
 main().catch((error: unknown) => {
   if (error instanceof ConfigError || error instanceof PortInUseError) {
     process.stderr.write(`cavitrace: ${error.message}\n`)
+    // 78 (EX_CONFIG): `npm start` does not start again what configuration stops.
+    process.exit(78)
   } else {
     process.stderr.write(`cavitrace: could not start: ${error instanceof Error ? error.stack : String(error)}\n`)
   }
