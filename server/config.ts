@@ -59,6 +59,13 @@ export const configSchema = z.object({
   WORKER_THREADS: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(0, 'must be 0 or more').max(64, 'must be at most 64').default(1),
   /** Seconds before an analysis job held by a silent (crashed) worker is handed to another. @default 120 */
   ANALYSIS_JOB_TIMEOUT_SECONDS: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(2, 'must be at least 2').max(86_400, 'must be at most 86400').default(120),
+  /**
+   * Largest lens-planner search, in two-lens placements weighed ((lenses × positions)² / 2); larger ones are refused
+   * with the position step that would fit. About 3–4 s of one core per 10⁹ here. @default 1e9
+   */
+  PLANNER_MAX_PLACEMENTS: z.coerce.number({ error: 'must be a number' }).min(1e4, 'must be at least 10000').max(1e12, 'must be at most 1e12').default(1e9),
+  /** Seconds a planner search may run; then it stops and answers with what it found, saying so. @default 10 */
+  PLANNER_TIME_BUDGET_SECONDS: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(600, 'must be at most 600').default(10),
   /** How many times a crashed analysis job is retried. @default 2 */
   ANALYSIS_RETRY_LIMIT: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(0, 'must be 0 or more').max(10, 'must be at most 10').default(2),
   /**

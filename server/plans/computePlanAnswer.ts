@@ -16,6 +16,13 @@ export interface PlanComputation {
   used: Lens[]
   left: { label: string; reason: string }[]
   request: ParsedPlanRequest
+  /** The work allowed (PLANNER_MAX_PLACEMENTS, PLANNER_TIME_BUDGET_SECONDS); none when absent (the demo seed). */
+  limits?: PlanLimits
+}
+
+export interface PlanLimits {
+  maxTwoLensPlacements: number
+  timeBudgetMs: number
 }
 
 /** The beam the request describes, at the cavity's wavelength unless it names its own. */
@@ -30,12 +37,19 @@ const placed = (byLabel: Map<string, Lens>) => (lens: { id?: string; focalLength
 
 export function computePlanAnswer(computation: PlanComputation): PlanAnswer {
   const started = performance.now()
-  const { cavity, geometry, used, left, request } = computation
+  const { cavity, geometry, used, left, request, limits } = computation
+  const deadline = limits ? started + limits.timeBudgetMs : Infinity
   const input = resolveBeam(request.beam, cavity.wavelengthNm)
   const kit: KitLens[] = used.map((lens) => ({ id: lens.label, focalLengthMm: lens.focalLengthMm, count: lens.count }))
   const plan = planModeMatching(
     { cavity: geometry, beam: input.beam, kit, table: request.table },
-    { couplingTarget: request.couplingTarget, rankBy: request.rankBy, toleranceMm: request.toleranceMm },
+    {
+      couplingTarget: request.couplingTarget,
+      rankBy: request.rankBy,
+      toleranceMm: request.toleranceMm,
+      maxTwoLensPlacements: limits?.maxTwoLensPlacements,
+      shouldStop: () => performance.now() > deadline,
+    },
   )
   const byLabel = new Map(used.map((lens) => [lens.label, lens]))
   const toPlaced = placed(byLabel)
@@ -82,6 +96,7 @@ export function computePlanAnswer(computation: PlanComputation): PlanAnswer {
     reachesTarget: plan.reachesTarget,
     verdict: plan.verdict,
     evaluated: plan.evaluated,
+    cut: plan.cut,
     warnings: [...input.warnings, ...plan.warnings],
     pictures: {
       path: pathLenses.length > 0 ? beamPathPicture(plan.path, plan.cavityMode, pathLenses, pathIndex) : null,

@@ -10,6 +10,12 @@ import type { PlanComputation } from './computePlanAnswer'
 import type { PlanOutcome } from './planThread'
 
 let pool: Piscina | null = null
+let threadsEnded = 0
+
+/** How many planner threads have ended in this process (a cancelled search ends its thread). */
+export function planThreadsEnded(): number {
+  return threadsEnded
+}
 
 function planPool(): Piscina {
   if (!pool) {
@@ -21,13 +27,19 @@ function planPool(): Piscina {
       idleTimeout: 120_000,
       execArgv: runningTs ? ['--import', 'tsx'] : [],
     })
+    pool.on('workerDestroy', () => {
+      threadsEnded += 1
+    })
   }
   return pool
 }
 
-/** Compute a plan answer off the request thread; refusals become HttpError with the engine's code. */
-export async function computePlanInThread(computation: PlanComputation): Promise<PlanAnswer> {
-  const outcome = (await planPool().run(computation)) as PlanOutcome
+/**
+ * Compute a plan answer off the request thread; refusals become HttpError with the engine's code. Aborting `signal`
+ * (the client hung up) ends the search at once: piscina terminates the thread that runs it.
+ */
+export async function computePlanInThread(computation: PlanComputation, signal?: AbortSignal): Promise<PlanAnswer> {
+  const outcome = (await planPool().run(computation, { signal })) as PlanOutcome
   if (!outcome.ok) throw new HttpError(outcome.status, outcome.code, outcome.message)
   return outcome.answer
 }

@@ -23,6 +23,7 @@ import { Router } from 'express'
 import { z } from 'zod'
 import { planRequestSchema, planSaveSchema } from '../../shared/api/plannerSchemas'
 import { requireActor } from '../auth/actor'
+import { HttpError } from '../http/errors'
 import { requirePermission } from '../auth/requirePermission'
 import type { AppContext } from '../app'
 import { parseId } from '../cavities/cavityRoutes'
@@ -34,9 +35,28 @@ export function planRoutes(context: AppContext): Router {
   const { db } = context
   const router = Router()
 
+  // One running search per person (in this process): a new one cancels the one still running, whose client then
+  // hears 409. A client that hangs up cancels its search too.
+  const running = new Map<number, AbortController>()
+  const limits = { maxTwoLensPlacements: context.config.PLANNER_MAX_PLACEMENTS, timeBudgetMs: context.config.PLANNER_TIME_BUDGET_SECONDS * 1000 }
   router.post('/cavities/:id/plan', requirePermission('lab.read'), async (req, res) => {
     const cavityId = parseId(req.params.id, 'cavity')
-    res.json(await planForCavity(db, cavityId, planRequestSchema.parse(req.body ?? {})))
+    const parsed = planRequestSchema.parse(req.body ?? {})
+    const actorId = requireActor(req).id
+    running.get(actorId)?.abort('replaced')
+    const search = new AbortController()
+    running.set(actorId, search)
+    res.on('close', () => {
+      if (!res.writableFinished) search.abort('hung up')
+    })
+    try {
+      res.json(await planForCavity(db, cavityId, parsed, { limits, signal: search.signal }))
+    } catch (error) {
+      if (!search.signal.aborted) throw error
+      if (search.signal.reason === 'replaced') throw new HttpError(409, 'search_replaced', 'A newer planner search of yours replaced this one (one search per person runs at a time).')
+    } finally {
+      if (running.get(actorId) === search) running.delete(actorId)
+    }
   })
 
   router.get('/cavities/:id/plans', requirePermission('lab.read'), async (req, res) => {

@@ -13,7 +13,7 @@ import { geometryOf, getCavity } from '../cavities/cavityService'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { listLenses } from '../lenses/lensRepository'
-import { computePlanAnswer, resolveBeam } from './computePlanAnswer'
+import { computePlanAnswer, resolveBeam, type PlanLimits } from './computePlanAnswer'
 import { beamPathPicture, couplingMapPicture, round6 } from './planPictures'
 import { computePlanInThread } from './planPool'
 import { deletePlan, findPlan, insertPlan, listPlansOfCavity, newestPlanOfCavity } from './planRepository'
@@ -46,16 +46,21 @@ export function usableKit(lenses: readonly Lens[], wavelengthNm: number, lensIds
  * Plan the cavity's input optics from the lab's kit. The search runs in a worker thread unless `inThread` is false
  * (the demo seed, which runs outside a server).
  */
-export async function planForCavity(db: Db, cavityId: string, request: ParsedPlanRequest, options: { inThread?: boolean } = {}): Promise<PlanAnswer> {
-  const { inThread = true } = options
+export async function planForCavity(
+  db: Db,
+  cavityId: string,
+  request: ParsedPlanRequest,
+  options: { inThread?: boolean; limits?: PlanLimits; signal?: AbortSignal } = {},
+): Promise<PlanAnswer> {
+  const { inThread = true, limits, signal } = options
   const cavity = await getCavity(db, cavityId)
   const { used, left } = usableKit(await listLenses(db), cavity.wavelengthNm, request.lensIds)
   if (used.length === 0) {
     const why = left.length === 0 ? 'The lens kit is empty: add the lenses the lab has on the Lens kit page before planning.' : `None of the kit's lenses can be used here (${left.slice(0, 5).map((l) => `${l.label}: ${l.reason}`).join('; ')}${left.length > 5 ? '; …' : ''}).`
     throw new HttpError(422, 'empty_kit', why)
   }
-  const computation = { cavity: { id: cavity.id, name: cavity.name, wavelengthNm: cavity.wavelengthNm }, geometry: geometryOf(cavity), used, left, request }
-  return inThread ? computePlanInThread(computation) : computePlanAnswer(computation)
+  const computation = { cavity: { id: cavity.id, name: cavity.name, wavelengthNm: cavity.wavelengthNm }, geometry: geometryOf(cavity), used, left, request, limits }
+  return inThread ? computePlanInThread(computation, signal) : computePlanAnswer(computation)
 }
 
 /** The matching path and the cavity mode on it, from a beam, a geometry and the laser-to-cavity distance. */

@@ -238,6 +238,8 @@ export interface PlanAnswer {
   reachesTarget: boolean
   verdict: string
   evaluated: { oneLens: number; twoLens: number; positions: number }
+  /** Null when the search was complete; otherwise a sentence saying that (and where) its time budget cut it. */
+  cut: string | null
   warnings: PlanWarning[]
   pictures: { path: BeamPathPicture | null; map: CouplingMapPicture | null }
   computeMs: number

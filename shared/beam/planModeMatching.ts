@@ -48,6 +48,13 @@ export interface ModeMatchingOptions {
   idealFocalRangeMm?: [number, number]
   /** How many ideal two-lens solutions to return. @default 5 */
   idealCount?: number
+  /**
+   * Largest search accepted, in two-lens placements weighed ((lenses × positions)² / 2, an upper bound); a larger
+   * one is refused with the position step that would fit. @default Infinity
+   */
+  maxTwoLensPlacements?: number
+  /** Asked between first lenses of the two-lens search; true stops it there (a time budget). @default never */
+  shouldStop?: () => boolean
 }
 
 export interface Arrangement {
@@ -75,6 +82,8 @@ export interface ModeMatchingPlan {
   /** One or two plain sentences: the answer. */
   verdict: string
   evaluated: { oneLens: number; twoLens: number; positions: number }
+  /** Null when the search was complete; otherwise a sentence saying where `shouldStop` cut it. */
+  cut: string | null
   warnings: EngineWarning[]
 }
 
@@ -94,6 +103,8 @@ export function planModeMatching(problem: ModeMatchingProblem, options: ModeMatc
     maxBeamRadiusMm = 12.5,
     idealFocalRangeMm = [10, 2000],
     idealCount = 5,
+    maxTwoLensPlacements = Infinity,
+    shouldStop,
   } = options
   assertArgument(Number.isFinite(couplingTarget) && couplingTarget > 0 && couplingTarget <= 1, `couplingTarget must be a fraction in (0, 1], got ${couplingTarget}`)
   assertArgument(Number.isInteger(maxArrangements) && maxArrangements >= 1, 'maxArrangements must be a positive integer')
@@ -113,11 +124,16 @@ export function planModeMatching(problem: ModeMatchingProblem, options: ModeMatc
   }
   const { laserToCavityMm, minSpacingMm, positions, intervals } = checkTable(table)
   const lenses = checkKit(kit)
+  checkSearchSize(lenses.length, positions.length, intervals, maxTwoLensPlacements)
   const path: MatchingPath = { beam, target, cavityPlaneMm: laserToCavityMm }
 
   const powers = Float64Array.from(lenses, (l) => 1 / l.focalLengthMm)
   const counts = Int32Array.from(lenses, (l) => l.count)
-  const search = searchKitArrangements(path, powers, counts, positions, minSpacingMm)
+  const search = searchKitArrangements(path, powers, counts, positions, minSpacingMm, shouldStop)
+  const cut =
+    search.firstLensesSearched < lenses.length
+      ? `The search was cut short by its time budget: two-lens pairs were searched for ${search.firstLensesSearched} of ${lenses.length} first lenses (every one-lens placement was); a coarser positionStepMm or fewer lenses gives a complete answer.`
+      : null
   const place = (c: KitCandidate): PlacedLens[] =>
     c.lensIndices.map((index, k) => ({ id: lenses[index].id, focalLengthMm: lenses[index].focalLengthMm, zMm: c.zMm[k] }))
   const pool = [...search.single, ...search.pairs].sort((a, b) => b.coupling - a.coupling).slice(0, Math.max(50, 5 * maxArrangements))
@@ -164,6 +180,7 @@ export function planModeMatching(problem: ModeMatchingProblem, options: ModeMatc
     reachesTarget,
     verdict: verdictOf(arrangements, chosen, couplingTarget, ideal, toleranceMm),
     evaluated: { ...search.evaluated, positions: positions.length },
+    cut,
     warnings,
   }
 }
@@ -198,6 +215,29 @@ function checkTable(table: TableConstraints) {
     throw new EngineError('grid_too_fine', `The zones with positionStepMm = ${positionStepMm} give ${positions.length} positions; use at most 20000 (a coarser step)`)
   }
   return { laserToCavityMm, minSpacingMm, positionStepMm, positions, intervals }
+}
+
+/**
+ * Refuse a search larger than `maxPlacements` two-lens placements, naming the position step that would fit (the
+ * work grows with the square of lenses × positions).
+ */
+function checkSearchSize(lensCount: number, positionCount: number, intervals: [number, number][], maxPlacements: number) {
+  const placements = (lensCount * positionCount) ** 2 / 2
+  if (placements <= maxPlacements) return
+  const fittingPositions = Math.floor(Math.sqrt(2 * maxPlacements) / lensCount)
+  const zoneLengthMm = intervals.reduce((sum, [from, to]) => sum + (to - from), 0)
+  let stepMm = Math.ceil((10 * zoneLengthMm) / Math.max(1, fittingPositions - intervals.length)) / 10
+  while (gridOf(intervals, stepMm).length > fittingPositions && stepMm < zoneLengthMm) stepMm = Math.round((stepMm + 0.1) * 10) / 10
+  const fewerLenses = Math.max(1, Math.floor(Math.sqrt(2 * maxPlacements) / positionCount))
+  throw new EngineError(
+    'search_too_large',
+    `This search would weigh about ${fmt(placements)} two-lens placements (${lensCount} lenses × ${positionCount} positions, squared); the limit is ${fmt(maxPlacements)}. ` +
+      `Coarsen positionStepMm to ${stepMm} mm or more, narrow lensZonesMm, or plan with at most ${fewerLenses} lenses (lensIds).`,
+  )
+}
+
+function fmt(n: number): string {
+  return Math.round(n).toLocaleString('en-US')
 }
 
 /** Sorted, de-duplicated grid over the intervals (each from its own start, at the step). */

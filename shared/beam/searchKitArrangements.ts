@@ -14,6 +14,8 @@ export interface KitSearch {
   pairs: KitCandidate[]
   /** How many (lens choice, positions) arrangements were evaluated. */
   evaluated: { oneLens: number; twoLens: number }
+  /** How many first lenses had all their pairs searched: all K, unless `shouldStop` cut the search short. */
+  firstLensesSearched: number
 }
 
 /**
@@ -22,7 +24,8 @@ export interface KitSearch {
  * back through the second lens once per (lens, position), the beam forward through the first lens once per
  * (lens, position), and each pair then costs one free-space step and two overlap evaluations — the coupling does not
  * depend on the plane where two q are compared (ABCD invariance; Kogelnik & Li, Appl. Opt. 5, 1550 (1966)).
- * `powers` are 1/f (1/mm); `counts` decide whether a lens may be used twice; `positions` ascend.
+ * `powers` are 1/f (1/mm); `counts` decide whether a lens may be used twice; `positions` ascend. `shouldStop` is
+ * asked after each first lens (a time budget): when it answers true the pairs found so far are returned.
  */
 export function searchKitArrangements(
   path: MatchingPath,
@@ -30,6 +33,7 @@ export function searchKitArrangements(
   counts: Int32Array,
   positions: Float64Array,
   minSpacingMm: number,
+  shouldStop: () => boolean = () => false,
 ): KitSearch {
   const K = powers.length
   const P = positions.length
@@ -91,7 +95,10 @@ export function searchKitArrangements(
   const bestFirst = new Int32Array(K * K)
   const bestSecond = new Int32Array(K * K)
   let twoLens = 0
+  let firstLensesSearched = 0
   for (let i = 0; i < K; i++) {
+    if (i > 0 && shouldStop()) break
+    firstLensesSearched = i + 1
     for (let pa = 0; pa < P; pa++) {
       const start = secondStart[pa]
       if (start >= P) continue
@@ -127,7 +134,7 @@ export function searchKitArrangements(
       coupling: Math.min(1, 4 * bestValue[pair]), // 4 Im q1 Im q2 / |q1* − q2|² (the factor 4 was left out of the loop)
     })
   }
-  return { single, pairs, evaluated: { oneLens: K * P, twoLens } }
+  return { single, pairs, evaluated: { oneLens: K * P, twoLens }, firstLensesSearched }
 }
 
 // Best value found by the last scan (module-level so the hot loop returns one number and allocates nothing).
