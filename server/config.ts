@@ -53,6 +53,8 @@ export const configSchema = z.object({
   CLIENT_DIR: z.string().default('dist/client'),
   /** Largest accepted upload in megabytes. @default 200 */
   UPLOAD_LIMIT_MB: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(10_000, 'must be at most 10000').default(200),
+  /** Largest request of several files together, in megabytes. @default 5 × UPLOAD_LIMIT_MB */
+  UPLOAD_TOTAL_LIMIT_MB: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(100_000, 'must be at most 100000').optional(),
   /** Public URL of the app, used in e-mailed links. @default http://127.0.0.1:PORT */
   APP_URL: z.url({ error: 'must be a URL such as https://cavitrace.example.org' }).optional(),
   /** Worker threads that run analyses inside this process (0 = none: leave it to `npm run worker` processes). @default 1 */
@@ -121,6 +123,11 @@ export type AppConfig = z.infer<typeof configSchema>
 /** Is the local SMTP fake on? Explicit MAIL_CAPTURE wins; otherwise on everywhere but production. */
 export function mailCaptureOn(config: AppConfig): boolean {
   return config.MAIL_CAPTURE ? config.MAIL_CAPTURE === 'on' : config.NODE_ENV !== 'production'
+}
+
+/** Upload size limits: each file (decompressed) and each request. */
+export function uploadLimits(config: AppConfig): { fileMb: number; totalMb: number } {
+  return { fileMb: config.UPLOAD_LIMIT_MB, totalMb: config.UPLOAD_TOTAL_LIMIT_MB ?? 5 * config.UPLOAD_LIMIT_MB }
 }
 
 /** Base URL for links in e-mail: APP_URL, or this server's own address. */

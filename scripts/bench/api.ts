@@ -19,7 +19,7 @@ import { LocalPostgres, ensurePostgres, projectRoot } from '../lib/services.mjs'
 
 const UPLOADS = 15
 
-function freePort(): Promise<number> {
+export function freePort(): Promise<number> {
   return new Promise((resolve) => {
     const probe = createServer().listen(0, '127.0.0.1', () => {
       const { port } = probe.address() as { port: number }
@@ -28,8 +28,8 @@ function freePort(): Promise<number> {
   })
 }
 
-/** `server/main.ts` in a child process on a free port; resolves with its URL once it listens. */
-function startServerProcess(env: Record<string, string>): Promise<{ url: string; stop: () => Promise<void> }> {
+/** `server/main.ts` in a child process on a free port; resolves with its URL (and process id) once it listens. */
+export function startServerProcess(env: Record<string, string>): Promise<{ url: string; pid: number; stop: () => Promise<void> }> {
   const child = spawn(process.execPath, [...(process.env.CAVITRACE_BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=/tmp/prof'] : []), '--import', 'tsx', 'server/main.ts'], {
     cwd: projectRoot,
     env: { ...process.env, NODE_ENV: 'production', SESSION_SECRET: 'bench-only-secret-bench-only-secret-0123', MAIL_CAPTURE: 'on', PORT: '0', LOG_LEVEL: 'warn', ...env },
@@ -42,6 +42,7 @@ function startServerProcess(env: Record<string, string>): Promise<{ url: string;
       if (!match) return
       resolve({
         url: match[1],
+        pid: child.pid!,
         stop: () =>
           new Promise((done) => {
             child.removeAllListeners('exit')

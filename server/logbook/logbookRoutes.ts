@@ -37,6 +37,7 @@ import { requireActor } from '../auth/actor'
 import { requirePermission } from '../auth/requirePermission'
 import type { AppContext } from '../app'
 import { parseId } from '../cavities/cavityRoutes'
+import { uploadLimits } from '../config'
 import { receiveTraceFiles, uploadedFiles } from '../traces/receiveTraceFiles'
 import { addLogKind, createLogEntry, editLogEntry, getLogEntry, listLabLogEntries, listLogEntries, listLogKinds, removeLogEntry, uploadEntryTraces } from './logbookService'
 
@@ -80,7 +81,7 @@ export function logbookRoutes(context: AppContext): Router {
     res.status(204).end()
   })
 
-  router.post('/log-entries/:id/traces', requirePermission('logbook.write'), receiveTraceFiles(config.UPLOAD_LIMIT_MB), async (req, res) => {
+  router.post('/log-entries/:id/traces', requirePermission('logbook.write'), receiveTraceFiles(uploadLimits(config)), async (req, res) => {
     const id = parseId(req.params.id, 'log_entry')
     const { note } = traceUploadFieldsSchema.parse(req.body ?? {})
     const files = uploadedFiles(req)

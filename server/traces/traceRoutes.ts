@@ -7,6 +7,7 @@ import { requirePermission } from '../auth/requirePermission'
 import type { AppContext } from '../app'
 import { parseId } from '../cavities/cavityRoutes'
 import { HttpError } from '../http/errors'
+import { uploadLimits } from '../config'
 import { receiveTraceFiles, uploadedFiles } from './receiveTraceFiles'
 import { readTraceContent } from './traceRepository'
 import { getTrace, queueAnalysis, uploadTraces } from './traceService'
@@ -14,7 +15,7 @@ import { getTrace, queueAnalysis, uploadTraces } from './traceService'
 export function traceRoutes(context: AppContext): Router {
   const { db, config } = context
   const router = Router()
-  router.post('/cavities/:id/traces', requirePermission('traces.upload'), receiveTraceFiles(config.UPLOAD_LIMIT_MB), async (req, res) => {
+  router.post('/cavities/:id/traces', requirePermission('traces.upload'), receiveTraceFiles(uploadLimits(config)), async (req, res) => {
     const cavityId = parseId(req.params.id, 'cavity')
     const { note } = traceUploadFieldsSchema.parse(req.body ?? {})
     const outcomes = await uploadTraces(context, cavityId, uploadedFiles(req), note, actorOf(req)?.id ?? null)
@@ -31,7 +32,9 @@ export function traceRoutes(context: AppContext): Router {
     const content = await readTraceContent(db, trace.id)
     if (!content) throw new HttpError(404, 'trace_not_found', `No stored file for trace ${trace.id}.`)
     // Stored compressed; browsers and curl --compressed decompress it on the fly.
-    res.set({ 'Content-Type': 'text/plain; charset=utf-8', 'Content-Encoding': 'gzip', 'Content-Disposition': `attachment; filename="${trace.fileName.replace(/["\\\r\n]/g, '_')}"` })
+    // The name as given, UTF-8 in filename* (RFC 6266 / RFC 8187) with an ASCII fallback for old clients.
+    res.attachment(trace.fileName)
+    res.set({ 'Content-Type': 'text/plain; charset=utf-8', 'Content-Encoding': 'gzip' })
     res.send(content)
   })
 

@@ -3,9 +3,7 @@
  * same cavity links to the stored one) and queue its analysis. Nothing is parsed here: a file that is
  * not a trace becomes a failed analysis with a clear error, and the file stays.
  */
-import { createHash } from 'node:crypto'
-import { promisify } from 'node:util'
-import { gzip } from 'node:zlib'
+import { readFile } from 'node:fs/promises'
 import type { AnalysisOptions } from '../../shared/api/cavitySchemas'
 import type { UploadOutcome } from '../../shared/api/tuningTypes'
 import { finishAnalysis, insertAnalysis, type AnalysisRecord } from '../analyses/analysisRepository'
@@ -17,17 +15,19 @@ import type { EventHub } from '../jobs/eventHub'
 import { HttpError } from '../http/errors'
 import { findTrace, insertTrace, type TraceRecord } from './traceRepository'
 
-const gzipAsync = promisify(gzip)
-
 export interface UploadContext {
   db: Db
   queue: Pick<AnalysisQueue, 'enqueue'>
   events: EventHub
 }
 
+/** A file as `receiveTraceFiles` leaves it: hashed and compressed into a temporary file. */
 export interface UploadedFile {
   fileName: string
-  bytes: Buffer
+  sha256: string
+  sizeBytes: number
+  /** Temporary file holding the content gzip-compressed. */
+  gzipPath: string
 }
 
 export type { UploadOutcome }
@@ -54,9 +54,9 @@ export async function uploadTraces(context: UploadContext, cavityId: string, fil
   if (cavity.archived) throw new HttpError(409, 'cavity_archived', `Cavity "${cavity.name}" is archived; un-archive it before uploading.`)
   const outcomes: UploadOutcome[] = []
   for (const file of files) {
-    const sha256 = createHash('sha256').update(file.bytes).digest('hex')
-    const contentGzip = await gzipAsync(file.bytes, { level: 6 })
-    const { trace, created } = await insertTrace(context.db, { cavityId, sha256, fileName: file.fileName, sizeBytes: file.bytes.length, contentGzip, note, uploadedBy: userId })
+    // One file's compressed bytes in memory at a time.
+    const contentGzip = await readFile(file.gzipPath)
+    const { trace, created } = await insertTrace(context.db, { cavityId, sha256: file.sha256, fileName: file.fileName, sizeBytes: file.sizeBytes, contentGzip, note, uploadedBy: userId })
     const existing = created ? null : await latestAnalysisOfTrace(context.db, trace.id)
     const analysis = existing ?? (await queueAnalysis(context, trace, {}, userId))
     outcomes.push({ trace, analysis, created })
