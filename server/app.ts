@@ -25,6 +25,7 @@ import type { AnalysisQueue } from './jobs/analysisQueue'
 import type { EventHub } from './jobs/eventHub'
 import { traceRoutes } from './traces/traceRoutes'
 import { apiNotFound, errorHandler } from './http/errors'
+import { refuseNulBytes } from './http/refuseNulBytes'
 import { invitationsRoutes } from './invitations/invitationsRoutes'
 import { lensRoutes } from './lenses/lensRoutes'
 import { logbookRoutes } from './logbook/logbookRoutes'
@@ -73,6 +74,7 @@ export function createApp(context: AppContext): Express {
   )
   app.use(express.json({ limit: '1mb' }))
   app.use(cookieParser())
+  app.use('/api', refuseNulBytes)
 
   const api = express.Router()
   api.use(healthRoutes(db))
