@@ -46,11 +46,18 @@ export interface AppContext extends AccountsContext {
   events: EventHub
 }
 
+/** Express's "trust proxy" from TRUST_PROXY: a hop count, or names/addresses; false when unset. */
+export function trustProxySetting(value: string | undefined): boolean | number | string {
+  if (!value) return false
+  return /^\d+$/.test(value) ? Number(value) : value
+}
+
 export function createApp(context: AppContext): Express {
   const { config, db, logger } = context
   const app = express()
   app.disable('x-powered-by')
-  app.set('trust proxy', 'loopback')
+  // Proxy headers only from the proxy the operator names (TRUST_PROXY); by default nobody's.
+  app.set('trust proxy', trustProxySetting(config.TRUST_PROXY))
   app.use(
     helmet({
       contentSecurityPolicy: {

@@ -84,6 +84,16 @@ export const configSchema = z.object({
   SESSION_HOURS: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(24 * 30, 'must be at most 720').default(12),
   /** Failed sign-ins (and reset requests) allowed per client address per 15 minutes. @default 10 */
   AUTH_RATE_LIMIT: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(1, 'must be at least 1').max(10_000, 'must be at most 10000').default(10),
+  /** Failed sign-ins allowed per account (from any address) per 15 minutes. @default 10 */
+  AUTH_ACCOUNT_RATE_LIMIT: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(1, 'must be at least 1').max(10_000, 'must be at most 10000').default(10),
+  /** Password-reset requests allowed per account (from any address) per 15 minutes. @default 3 */
+  AUTH_ACCOUNT_RESET_LIMIT: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(1, 'must be at least 1').max(10_000, 'must be at most 10000').default(3),
+  /**
+   * The reverse proxy in front of the app whose X-Forwarded-For / -Proto headers are believed: a number of hops
+   * (`1`), `loopback`, or addresses/subnets separated by commas (Express's "trust proxy"). Unset: no proxy, the
+   * connection's own address counts (otherwise anyone could rotate X-Forwarded-For past the sign-in limits).
+   */
+  TRUST_PROXY: z.string().trim().min(1).optional(),
   /**
    * `on`: run a local SMTP fake on loopback inside the server and keep every message in the database
    * (outbox page for admins). @default on in development and test, off in production

@@ -7,14 +7,14 @@ import type { AccountsContext } from './accountsContext'
 import { actorOf, requireActor, toSessionUser } from './actor'
 import { requestPasswordReset, resetPassword, signIn } from './authDomain'
 import { requireSignedIn } from './requirePermission'
-import { resetRequestLimiter, signInLimiter } from './rateLimits'
+import { accountResetLimiter, accountSignInLimiter, resetRequestLimiter, signInLimiter } from './rateLimits'
 import { clearSessionCookie, issueSessionCookie } from './sessionCookie'
 
 export function authRoutes(context: AccountsContext): Router {
   const { config, db } = context
   const router = Router()
 
-  router.post('/auth/login', signInLimiter(config.AUTH_RATE_LIMIT), async (req, res) => {
+  router.post('/auth/login', signInLimiter(config.AUTH_RATE_LIMIT), accountSignInLimiter(config.AUTH_ACCOUNT_RATE_LIMIT), async (req, res) => {
     const input = loginInputSchema.parse(req.body)
     const user = await signIn(context, input, req.ip ?? null)
     issueSessionCookie(res, req, config, await context.sessionSecret(), { userId: user.id, sessionVersion: user.sessionVersion })
@@ -38,7 +38,7 @@ export function authRoutes(context: AccountsContext): Router {
     res.json(answer)
   })
 
-  router.post('/auth/reset-request', resetRequestLimiter(config.AUTH_RATE_LIMIT), async (req, res) => {
+  router.post('/auth/reset-request', resetRequestLimiter(config.AUTH_RATE_LIMIT), accountResetLimiter(config.AUTH_ACCOUNT_RESET_LIMIT), async (req, res) => {
     const input = resetRequestInputSchema.parse(req.body)
     await requestPasswordReset(context, input, req.ip ?? null)
     res.status(202).json({ message: 'If an account exists for that address, a link to reset its password is on its way. It works once, for one hour.' })
