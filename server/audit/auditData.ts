@@ -18,6 +18,7 @@ export type AuditEvent =
   | 'invitation.accepted'
   | 'token.created'
   | 'token.revoked'
+  | 'token.revoked_all'
 
 export interface AuditRecordInput {
   event: AuditEvent

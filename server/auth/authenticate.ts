@@ -23,7 +23,7 @@ export function authenticate(db: Db, sessionSecret: () => Promise<string>): Requ
       const bearer = bearerTokenOf(req.get('authorization'))
       if (req.get('authorization') !== undefined) {
         // Built only when needed: an Error captures a stack trace, too dear to pay on every request.
-        const refused = () => new HttpError(401, 'invalid_token', 'The API token is not valid: it may have been revoked, or its owner disabled.')
+        const refused = () => new HttpError(401, 'invalid_token', 'The API token is not valid: it may have been revoked or have expired, or its owner disabled.')
         if (!bearer) throw new HttpError(401, 'invalid_token', 'Send the API token as "Authorization: Bearer <token>".')
         const found = await useTokenByHash(db, hashSecret(bearer))
         const user = found?.owner

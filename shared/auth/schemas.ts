@@ -45,7 +45,16 @@ export const userPatchInputSchema = z
   .refine((patch) => Object.keys(patch).length > 0, { message: 'name at least one of role, disabled, name' })
 export type UserPatchInput = z.infer<typeof userPatchInputSchema>
 
-export const tokenInputSchema = z.object({ name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(80, 'must be at most 80 characters') })
+const YEAR_MS = 365.25 * 24 * 3600 * 1000
+export const tokenInputSchema = z.object({
+  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(80, 'must be at most 80 characters'),
+  /** When the token stops working (ISO date or date-time). @default one year from now */
+  expiresAt: z
+    .union([z.iso.datetime({ offset: true, error: 'must be a date-time such as 2027-06-30T00:00:00Z' }), z.iso.date({ error: 'must be a date such as 2027-06-30' })])
+    .refine((value) => Date.parse(value) > Date.now(), 'must be in the future')
+    .refine((value) => Date.parse(value) <= Date.now() + 5 * YEAR_MS, 'must be at most 5 years ahead')
+    .optional(),
+})
 export type TokenInput = z.infer<typeof tokenInputSchema>
 
 export const auditQuerySchema = z.object({
@@ -105,6 +114,8 @@ export interface TokenSummary {
   createdAt: string
   lastUsedAt: string | null
   revokedAt: string | null
+  /** When it stops working (null: never, only for tokens made before expiry existed and kept so). */
+  expiresAt: string | null
   /** Owner, included when an admin lists everyone's tokens. */
   owner?: { id: number; email: string; name: string }
 }

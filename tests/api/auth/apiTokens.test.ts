@@ -30,8 +30,10 @@ describe('API tokens for lab scripts', () => {
     expect(viaToken.status).toBe(200)
     const me = await request(server.url).get('/api/auth/me').set('Authorization', `Bearer ${secret}`)
     expect(me.body.user).toMatchObject({ email: person.email, via: 'token' })
+    // Tokens are managed from a session only: a token cannot mint another (issue 17).
     const write = await request(server.url).post('/api/tokens').set('Authorization', `Bearer ${secret}`).send({ name: 'made by a script' })
-    expect(write.status).toBe(201)
+    expect(write.status).toBe(403)
+    expect(write.body.error.code).toBe('session_required')
     expect((await server.db('api_tokens').where({ id: token.id }).first()).last_used_at).not.toBeNull()
   })
 
@@ -55,9 +57,9 @@ describe('API tokens for lab scripts', () => {
     const person = await createPerson(server, 'technician')
     const { secret } = (await (await signedIn(server, person.email)).post('/api/tokens').send({ name: 'logbook camera' })).body
     expect((await admin.patch(`/api/users/${person.id}`).send({ disabled: true })).status).toBe(200)
-    expect((await request(server.url).get('/api/tokens').set('Authorization', `Bearer ${secret}`)).status).toBe(401)
+    expect((await request(server.url).get('/api/auth/me').set('Authorization', `Bearer ${secret}`)).status).toBe(401)
     expect((await admin.patch(`/api/users/${person.id}`).send({ disabled: false })).status).toBe(200)
-    expect((await request(server.url).get('/api/tokens').set('Authorization', `Bearer ${secret}`)).status).toBe(200)
+    expect((await request(server.url).get('/api/auth/me').set('Authorization', `Bearer ${secret}`)).status).toBe(200)
   })
 
   it('when the header is malformed or the token made up then the answer is 401, never anonymous', async () => {

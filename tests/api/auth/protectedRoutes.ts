@@ -118,6 +118,16 @@ export const protectedRoutes: ProtectedRouteCase[] = [
     },
   },
   { method: 'get', route: '/api/tokens?all=1', action: 'tokens.manageAll', okStatus: 200, request: at('/api/tokens?all=1') },
+  {
+    method: 'delete',
+    route: '/api/users/:id/tokens',
+    action: 'tokens.manageAll',
+    okStatus: 200,
+    async request({ server }) {
+      const person = await createPerson(server, 'viewer')
+      return { path: `/api/users/${person.id}/tokens` }
+    },
+  },
   { method: 'get', route: '/api/audit', action: 'audit.read', okStatus: 200, request: at('/api/audit') },
   { method: 'get', route: '/api/outbox', action: 'outbox.read', okStatus: 200, request: at('/api/outbox') },
   // The tuning loop (issue 6). GET /api/cavities/:id/events is a never-ending stream, so it is checked in tuningLoop.test.ts instead.
