@@ -59,7 +59,7 @@ export const configSchema = z.object({
   APP_URL: z.url({ error: 'must be a URL such as https://cavitrace.example.org' }).optional(),
   /** Worker threads that run analyses inside this process (0 = none: leave it to `npm run worker` processes). @default 1 */
   WORKER_THREADS: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(0, 'must be 0 or more').max(64, 'must be at most 64').default(1),
-  /** Seconds before an analysis job held by a silent (crashed) worker is handed to another. @default 120 */
+  /** Longest one analysis may run: its job lease is renewed until then (a dead worker's job is handed on within about 30 s regardless). @default 120 */
   ANALYSIS_JOB_TIMEOUT_SECONDS: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(2, 'must be at least 2').max(86_400, 'must be at most 86400').default(120),
   /**
    * Largest lens-planner search, in two-lens placements weighed ((lenses × positions)² / 2); larger ones are refused

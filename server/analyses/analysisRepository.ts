@@ -10,6 +10,9 @@ export type { AnalysisRecord, HistoryRow }
 
 interface AnalysisRow {
   id: string
+  /** The process running it (host name, process id), for handing on a dead worker's job. */
+  worker_host?: string | null
+  worker_pid?: number | null
   trace_id: string
   cavity_id: string
   status: AnalysisStatus
@@ -66,11 +69,12 @@ export async function findAnalysis(db: Db, id: string): Promise<AnalysisRecord |
 }
 
 /** Mark an analysis as running (and count the attempt); null when it no longer exists or is finished. */
-export async function markAnalysisRunning(db: Db, id: string): Promise<AnalysisRecord | null> {
+/** Mark an analysis running (one more attempt), recording which process runs it. */
+export async function markAnalysisRunning(db: Db, id: string, worker?: { host: string; pid: number }): Promise<AnalysisRecord | null> {
   const [row] = await db<AnalysisRow>('analyses')
     .where({ id })
     .whereIn('status', ['queued', 'running'])
-    .update({ status: 'running', started_at: db.fn.now() as unknown as Date, attempts: db.raw('attempts + 1') as unknown as number })
+    .update({ status: 'running', started_at: db.fn.now() as unknown as Date, attempts: db.raw('attempts + 1') as unknown as number, worker_host: worker?.host ?? null, worker_pid: worker?.pid ?? null })
     .returning('*')
   return row ? toAnalysis(row as AnalysisRow) : null
 }

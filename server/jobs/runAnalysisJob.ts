@@ -8,6 +8,7 @@ import { finishAnalysis, markAnalysisRunning } from '../analyses/analysisReposit
 import type { Db } from '../db/knex'
 import { readTraceContent } from '../traces/traceRepository'
 import type { AnalysisPool } from './analysisPool'
+import { thisWorker } from './jobLeases'
 import type { EventHub } from './eventHub'
 
 export interface JobContext {
@@ -22,7 +23,7 @@ export interface JobContext {
 
 export async function runAnalysisJob(analysisId: string, context: JobContext): Promise<void> {
   const { db, pool, events, logger } = context
-  const analysis = await markAnalysisRunning(db, analysisId)
+  const analysis = await markAnalysisRunning(db, analysisId, thisWorker)
   if (!analysis) {
     logger.info({ analysisId }, 'analysis already finished or removed; skipping job')
     return
