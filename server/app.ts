@@ -14,6 +14,7 @@ import { alertRoutes } from './alerts/alertRoutes'
 import { analysisRoutes } from './analyses/analysisRoutes'
 import { auditRoutes } from './audit/auditRoutes'
 import type { AccountsContext } from './auth/accountsContext'
+import { actorOf } from './auth/actor'
 import { authenticate } from './auth/authenticate'
 import { authRoutes } from './auth/authRoutes'
 import { csrfProtection } from './auth/csrf'
@@ -87,6 +88,11 @@ export function createApp(context: AppContext): Express {
   api.use(healthRoutes(db))
   // Who is asking (API token or session cookie), then refuse cross-site writes, then the routes.
   api.use(authenticate(db, context.sessionSecret))
+  // What a signed-in person reads is theirs: no browser or proxy cache keeps it.
+  api.use((req, res, next) => {
+    if (actorOf(req)) res.set('Cache-Control', 'no-store')
+    next()
+  })
   api.use(csrfProtection(config))
   api.use(authRoutes(context))
   api.use(usersRoutes(db))

@@ -9,6 +9,7 @@ export type AuditEvent =
   | 'auth.sign_out'
   | 'auth.reset_requested'
   | 'auth.password_reset'
+  | 'auth.password_changed'
   | 'user.role_changed'
   | 'user.renamed'
   | 'user.disabled'

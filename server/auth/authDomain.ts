@@ -1,11 +1,11 @@
 /** Sign-in and password reset, free of HTTP: the routes pass plain inputs and get plain results. */
 import { passwordProblem } from '../../shared/auth/passwordPolicy'
-import type { LoginInput, ResetInput, ResetRequestInput } from '../../shared/auth/schemas'
+import type { ChangePasswordInput, LoginInput, ResetInput, ResetRequestInput } from '../../shared/auth/schemas'
 import { recordAudit } from '../audit/auditData'
 import { HttpError } from '../http/errors'
 import { passwordResetMail } from '../mail/accountMessages'
 import { hashSecret, newLinkToken } from '../tokens/secretTokens'
-import { findUserByEmail, recordSignIn, updateUser, type UserRecord } from '../users/usersData'
+import { findUserByEmail, findUserById, recordSignIn, updateUser, type UserRecord } from '../users/usersData'
 import type { AccountsContext } from './accountsContext'
 import { hashPassword, verifyPassword } from './passwords'
 import { consumePasswordReset, insertPasswordReset } from './passwordResetsData'
@@ -21,7 +21,7 @@ export async function signIn(context: AccountsContext, input: LoginInput, ip: st
   if (!user || !matches || user.disabledAt) {
     const reason = !user ? 'unknown_email' : !matches ? 'wrong_password' : 'disabled'
     await recordAudit(db, { event: 'auth.sign_in_failed', subject: input.email, ip, details: { reason }, actor: user ? { id: user.id, email: user.email } : null })
-    if (user && matches && user.disabledAt) throw new HttpError(403, 'account_disabled', 'This account has been disabled. Ask an administrator if you need it back.')
+    // A disabled account answers exactly like a wrong password: a different answer would confirm the password.
     throw new HttpError(401, 'wrong_credentials', 'That e-mail address and password do not match an account.')
   }
   await recordSignIn(db, user.id)
@@ -38,6 +38,25 @@ export async function requestPasswordReset(context: AccountsContext, input: Rese
   const { secret, hash } = newLinkToken()
   await insertPasswordReset(db, { userId: user.id, hash, expiresAt: new Date(Date.now() + resetLinkLifetimeMs) })
   mailer.sendLater(passwordResetMail({ to: user.email, name: user.name, baseUrl: context.publicUrl(), token: secret }))
+}
+
+/**
+ * A signed-in person changes their own password (the current one proves it is them). Every other session of
+ * theirs ends; the caller issues this session a fresh cookie from the returned record.
+ */
+export async function changePassword(context: AccountsContext, userId: number, input: ChangePasswordInput, ip: string | null): Promise<UserRecord> {
+  const { db } = context
+  const user = await findUserById(db, userId)
+  if (!user || user.disabledAt) throw new HttpError(401, 'not_signed_in', 'Sign in to continue.')
+  if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
+    await recordAudit(db, { event: 'auth.sign_in_failed', actor: { id: user.id, email: user.email }, subject: user.email, ip, details: { reason: 'wrong_current_password' } })
+    throw new HttpError(403, 'wrong_password', 'The current password is not right; the password was not changed.')
+  }
+  const problem = passwordProblem(input.newPassword, { email: user.email, name: user.name })
+  if (problem) throw new HttpError(400, 'weak_password', problem)
+  const changed = await updateUser(db, user.id, { passwordHash: await hashPassword(input.newPassword), endSessions: true })
+  await recordAudit(db, { event: 'auth.password_changed', actor: { id: user.id, email: user.email }, subject: user.email, ip })
+  return changed ?? user
 }
 
 /** Set a new password from a reset link; every earlier session of that person ends. */

@@ -1,11 +1,12 @@
 /** `/api/auth/*`: sign in and out, who am I, and password reset. Thin: parse, call the domain, answer. */
 import { Router } from 'express'
-import { loginInputSchema, resetInputSchema, resetRequestInputSchema, type SessionAnswer } from '../../shared/auth/schemas'
+import { changePasswordInputSchema, loginInputSchema, resetInputSchema, resetRequestInputSchema, type SessionAnswer } from '../../shared/auth/schemas'
 import { recordAudit } from '../audit/auditData'
 import { updateUser } from '../users/usersData'
 import type { AccountsContext } from './accountsContext'
 import { actorOf, requireActor, toSessionUser } from './actor'
-import { requestPasswordReset, resetPassword, signIn } from './authDomain'
+import { changePassword, requestPasswordReset, resetPassword, signIn } from './authDomain'
+import { HttpError } from '../http/errors'
 import { requireSignedIn } from './requirePermission'
 import { accountResetLimiter, accountSignInLimiter, resetRequestLimiter, signInLimiter } from './rateLimits'
 import { clearSessionCookie, issueSessionCookie } from './sessionCookie'
@@ -42,6 +43,16 @@ export function authRoutes(context: AccountsContext): Router {
     const input = resetRequestInputSchema.parse(req.body)
     await requestPasswordReset(context, input, req.ip ?? null)
     res.status(202).json({ message: 'If an account exists for that address, a link to reset its password is on its way. It works once, for one hour.' })
+  })
+
+  // Change one's own password from a signed-in session (not with an API token); other sessions end, this one goes on.
+  router.post('/auth/password', requireSignedIn, accountSignInLimiter(config.AUTH_ACCOUNT_RATE_LIMIT), async (req, res) => {
+    const actor = requireActor(req)
+    if (actor.via !== 'session') throw new HttpError(403, 'session_required', 'Change your password from a signed-in session, not with an API token.')
+    const input = changePasswordInputSchema.parse(req.body)
+    const user = await changePassword(context, actor.id, input, req.ip ?? null)
+    issueSessionCookie(res, req, config, await context.sessionSecret(), { userId: user.id, sessionVersion: user.sessionVersion })
+    res.json({ message: 'Your password has been changed. Other browsers where you were signed in are signed out.' })
   })
 
   router.post('/auth/reset', async (req, res) => {

@@ -7,13 +7,15 @@
 import type { Request, RequestHandler } from 'express'
 import { rateLimit } from 'express-rate-limit'
 import { HttpError } from '../http/errors'
+import { actorOf } from './actor'
 
 const windowMs = 15 * 60 * 1000
 
-/** The account a sign-in or reset request is about: its e-mail address, trimmed and lower-cased. */
+/** The account a request is about: the e-mail address it names, or the signed-in person's; trimmed, lower-cased. */
 function accountKey(req: Request): string {
-  const email = (req.body as { email?: unknown } | undefined)?.email
-  return `account:${typeof email === 'string' ? email.trim().toLowerCase() : ''}`
+  const named = (req.body as { email?: unknown } | undefined)?.email
+  const email = typeof named === 'string' ? named : (actorOf(req)?.email ?? '')
+  return `account:${email.trim().toLowerCase()}`
 }
 
 function limiter(limit: number, what: string, skipSuccessfulRequests: boolean, perAccount = false): RequestHandler {

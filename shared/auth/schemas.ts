@@ -31,6 +31,9 @@ export const resetRequestInputSchema = z.object({ email: emailSchema })
 export type ResetRequestInput = z.infer<typeof resetRequestInputSchema>
 
 export const resetInputSchema = z.object({ token: linkTokenSchema, password: passwordSchema })
+/** `POST /api/auth/password`: a signed-in person changes their own password. */
+export const changePasswordInputSchema = z.object({ currentPassword: passwordSchema, newPassword: passwordSchema })
+export type ChangePasswordInput = z.infer<typeof changePasswordInputSchema>
 export type ResetInput = z.infer<typeof resetInputSchema>
 
 export const invitationInputSchema = z.object({ email: emailSchema, role: roleSchema })
