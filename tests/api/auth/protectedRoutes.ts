@@ -13,7 +13,7 @@ import { insertToken } from '../../../server/tokens/tokensData'
 import type { TestServer } from '../../support/testServer'
 import { tuningFixture } from '../../support/tuningFixtures'
 import { testCavityGeometry } from '../../support/traceFiles'
-import { createPerson, uniqueEmail } from './accountsTestKit'
+import { createPerson, testPassword, uniqueEmail } from './accountsTestKit'
 
 let walkLensCounter = 0
 /** A lens of the kit made straight in the database (unique label per call). */
@@ -91,6 +91,8 @@ function doneAnalysis(server: TestServer): Promise<string> {
 
 export const protectedRoutes: ProtectedRouteCase[] = [
   { method: 'get', route: '/api/auth/me', action: 'signedIn', okStatus: 200, request: at('/api/auth/me') },
+  // Each role's caller changes its password once in the walk (its own session goes on with a fresh cookie).
+  { method: 'post', route: '/api/auth/password', action: 'signedIn', okStatus: 200, request: at('/api/auth/password', { currentPassword: testPassword, newPassword: 'a walked new passphrase' }) },
   { method: 'get', route: '/api/users', action: 'users.manage', okStatus: 200, request: at('/api/users') },
   {
     method: 'patch',
