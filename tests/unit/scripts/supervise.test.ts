@@ -4,7 +4,6 @@ import { mkdtempSync, readFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { describe, expect, it } from 'vitest'
-// @ts-expect-error plain-Node script without type declarations
 import { EXIT_CONFIG, supervise } from '../../../scripts/lib/supervise.mjs'
 
 /** A child that appends a line to `log` and then runs `body`. */
