@@ -61,6 +61,17 @@ const VALUE_UNIT_KEY = /^(?:vertical|y|amplitude|voltage|value)?\s*units?$/i
 const TIME_UNIT_KEY = /^(?:horizontal|x|time)\s*units?$/i
 const COMMENT_MARK = /^\s*(?:#+|%+|\/\/|;+)\s*/
 
+/** Columns (0-based) whose cells in `rows` are all NaN tokens or out-of-range words (none a number, none blank). */
+function silentColumns(rows: Array<{ kinds: ArrayLike<number> }>): number[] {
+  const width = rows.reduce((most, row) => Math.max(most, row.kinds.length), 0)
+  const silent: number[] = []
+  for (let column = 0; column < width; column++) {
+    const quiet = rows.length > 0 && rows.every((row) => row.kinds[column] === CellKind.Missing || row.kinds[column] === CellKind.Clipped)
+    if (quiet) silent.push(column)
+  }
+  return silent
+}
+
 /**
  * Work out the layout of a text export from its first lines: delimiter (papaparse tokenises each candidate),
  * decimal mark, preamble of key/value metadata, header row (and a units row under it), which columns hold
@@ -80,6 +91,16 @@ export function sniffTraceLayout(text: string, options: SniffTraceLayoutOptions 
     throw new EngineError(
       'too_many_columns',
       `The file has ${dataColumns.length} numeric columns; a trace export has at most ${MAX_DATA_COLUMNS} (this looks like a matrix or an image, not channels over time).`,
+    )
+  }
+  // A channel that printed only NaN (switched off, or out of range the whole time) is not numeric, so without this
+  // check the time column left alone would be read as the signal and the message would speak of a missing time axis.
+  const silent = silentColumns(tail)
+  if (silent.length > 0 && dataColumns.length <= 1) {
+    const which = silent.map((column) => column + 1).join(', ')
+    throw new EngineError(
+      'no_signal',
+      `Column${silent.length === 1 ? '' : 's'} ${which} of the file hold${silent.length === 1 ? 's' : ''} only NaN or out-of-range values: there is no signal to analyse. Check that the channel was on and in range when the export was saved.`,
     )
   }
   if (dataColumns.length === 0) {

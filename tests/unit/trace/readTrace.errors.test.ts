@@ -20,6 +20,21 @@ function engineErrorOf(bytes: Uint8Array, options?: ReadTraceOptions): EngineErr
 const good = formatTraceCsv(makeSweptTrace({ sampleCount: 200, sweeps: 1 }), { layout: 'plain-columns' })
 
 describe('readTrace errors name the problem', () => {
+  it('when the only channel printed NaN throughout then no_signal names its column, not a missing time axis (issue 17)', () => {
+    const rows = Array.from({ length: 200 }, (_, i) => `${(i * 1e-5).toFixed(5)},NaN`)
+    const error = engineErrorOf(utf8(['time,ch1', ...rows].join('\n')))
+    expect(error.code).toBe('no_signal')
+    expect(error.message).toMatch(/^Column 2 of the file holds only NaN/)
+    const allNan = Array.from({ length: 200 }, () => 'NaN,NaN')
+    expect(engineErrorOf(utf8(['t,ch1', ...allNan].join('\n'))).message).toMatch(/^Columns 1, 2 of the file hold only NaN/)
+  })
+
+  it('when one of two channels printed NaN throughout then the other is still read', () => {
+    const rows = Array.from({ length: 200 }, (_, i) => `${(i * 1e-5).toFixed(5)},${Math.sin(i / 10).toFixed(4)},NaN`)
+    const trace = readTrace(utf8(['time,ch1,ch2', ...rows].join('\n')))
+    expect(trace.channels.map((channel) => channel.name)).toContain('ch1')
+  })
+
   it('when the file is empty then empty_file', () => {
     expect(engineErrorOf(new Uint8Array()).code).toBe('empty_file')
     expect(engineErrorOf(utf8(' \r\n\n\t')).code).toBe('empty_file')
