@@ -59,8 +59,12 @@ function percentile(values: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]
 }
 
-export default async function benchApi(): Promise<void> {
-  const dir = join(projectRoot, '.data', `bench-${process.pid}`)
+/**
+ * A throwaway cluster with a migrated database holding one experimenter (with an API token) and one cavity; runs
+ * `work` with them and removes the cluster afterwards.
+ */
+export async function withBenchLab(name: string, work: (lab: { url: string; token: string; cavityId: string }) => Promise<void>): Promise<void> {
+  const dir = join(projectRoot, '.data', `${name}-${process.pid}`)
   process.env.CAVITRACE_PG_FSYNC = 'off'
   const cluster = new LocalPostgres({ bin: ensurePostgres(), dir, port: await freePort() })
   await cluster.start()
@@ -74,7 +78,17 @@ export default async function benchApi(): Promise<void> {
     await insertToken(setupDb, { userId: user.id, name: 'bench', prefix: token.prefix, hash: token.hash })
     const cavity = await insertCavity(setupDb, { name: 'Bench cavity', description: '', location: '', ...testCavityGeometry, targetFundamentalFraction: null, archived: false })
     await setupDb.destroy()
+    await work({ url, token: token.secret, cavityId: cavity.id })
+  } finally {
+    cluster.stop()
+    rmSync(dir, { recursive: true, force: true })
+  }
+}
 
+export default async function benchApi(): Promise<void> {
+  await withBenchLab('bench', async ({ url, token: secret, cavityId }) => {
+    const token = { secret }
+    const cavity = { id: cavityId }
     // The server runs in its own process, as in production, so the load generator does not share its event loop.
     const server = await startServerProcess({ DATABASE_URL: url, WORKER_THREADS: '1' })
     const headers = { Authorization: `Bearer ${token.secret}` }
@@ -135,8 +149,5 @@ export default async function benchApi(): Promise<void> {
     } finally {
       await server.stop()
     }
-  } finally {
-    cluster.stop()
-    rmSync(dir, { recursive: true, force: true })
-  }
+  })
 }

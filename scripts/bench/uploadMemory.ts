@@ -4,18 +4,10 @@
  * text (chunked, no Content-Length, so the server cannot refuse it early) while the server's RSS is sampled every
  * 50 ms from /proc. Prints the RSS before, the peak and the rise, and the answer.
  */
-import { readFileSync, rmSync } from 'node:fs'
+import { readFileSync } from 'node:fs'
 import { request } from 'node:http'
-import { join } from 'node:path'
-import { migrationConfig } from '../../db/migrationSource'
-import { insertCavity } from '../../server/cavities/cavityRepository'
-import { createDb } from '../../server/db/knex'
-import { newApiToken } from '../../server/tokens/secretTokens'
-import { insertToken } from '../../server/tokens/tokensData'
-import { insertUser } from '../../server/users/usersData'
-import { generatedTraceCsv, testCavityGeometry } from '../../tests/support/traceFiles'
-import { LocalPostgres, ensurePostgres, projectRoot } from '../lib/services.mjs'
-import { freePort, startServerProcess } from './api'
+import { generatedTraceCsv } from '../../tests/support/traceFiles'
+import { startServerProcess, withBenchLab } from './api'
 
 const MB = 1024 * 1024
 
@@ -53,20 +45,7 @@ function streamUpload(url: string, path: string, authorization: string, totalByt
 }
 
 export default async function benchUploadMemory(): Promise<void> {
-  const dir = join(projectRoot, '.data', `bench-upload-${process.pid}`)
-  process.env.CAVITRACE_PG_FSYNC = 'off'
-  const cluster = new LocalPostgres({ bin: ensurePostgres(), dir, port: await freePort() })
-  await cluster.start()
-  try {
-    await cluster.createDatabase('bench')
-    const url = cluster.url('bench')
-    const setupDb = createDb(url, { poolMax: 2 })
-    await setupDb.migrate.latest(migrationConfig)
-    const user = await insertUser(setupDb, { email: 'bench@bench.cavitrace.test', name: 'Bench', role: 'experimenter', passwordHash: 'x' })
-    const token = newApiToken()
-    await insertToken(setupDb, { userId: user.id, name: 'bench', prefix: token.prefix, hash: token.hash })
-    const cavity = await insertCavity(setupDb, { name: 'Bench cavity', description: '', location: '', ...testCavityGeometry, targetFundamentalFraction: null, archived: false })
-    await setupDb.destroy()
+  await withBenchLab('bench-upload', async ({ url, token, cavityId }) => {
     const sizesMb = (process.env.CAVITRACE_BENCH_UPLOAD_MB ?? '200,1024').split(',').map(Number)
     const limitMb = process.env.CAVITRACE_BENCH_UPLOAD_LIMIT_MB ?? '200'
     console.log(`UPLOAD_LIMIT_MB=${limitMb}; WORKER_THREADS=0 (no analysis in the server, so only the upload shows)`)
@@ -80,7 +59,7 @@ export default async function benchUploadMemory(): Promise<void> {
         let peak = before
         const sampler = setInterval(() => (peak = Math.max(peak, rssMb(server.pid))), 50)
         const started = performance.now()
-        const answer = await streamUpload(server.url, `/api/cavities/${cavity.id}/traces`, `Bearer ${token.secret}`, sizeMb * MB)
+        const answer = await streamUpload(server.url, `/api/cavities/${cavityId}/traces`, `Bearer ${token}`, sizeMb * MB)
         const wall = performance.now() - started
         await new Promise((resolve) => setTimeout(resolve, 200))
         clearInterval(sampler)
@@ -90,8 +69,5 @@ export default async function benchUploadMemory(): Promise<void> {
         await server.stop()
       }
     }
-  } finally {
-    cluster.stop()
-    rmSync(dir, { recursive: true, force: true })
-  }
+  })
 }

@@ -1,10 +1,10 @@
 import type { ChildProcess } from 'node:child_process'
 import request from 'supertest'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import { createActor, type TestActor } from '../support/actors'
-import { generatedTraceCsv, testCavityGeometry } from '../support/traceFiles'
-import { startTestServer, type TestServer } from '../support/testServer'
-import { startWorker, stopWorker, waitForStatus } from '../support/workerProcess'
+import type { TestActor } from '../support/actors'
+import { generatedTraceCsv } from '../support/traceFiles'
+import type { TestServer } from '../support/testServer'
+import { startWorker, stopWorker, uploadOnlyLab, waitForStatus } from '../support/workerProcess'
 
 describe('analysis workers as separate processes on one queue', () => {
   let server: TestServer
@@ -14,11 +14,7 @@ describe('analysis workers as separate processes on one queue', () => {
 
   beforeAll(async () => {
     // This app instance only takes uploads; the analyses run in the worker processes.
-    server = await startTestServer({ WORKER_THREADS: '0', ANALYSIS_JOB_TIMEOUT_SECONDS: '15' })
-    experimenter = await createActor(server.db, 'experimenter')
-    const lead = await createActor(server.db, 'lead')
-    const created = await request(server.url).post('/api/cavities').set('Authorization', lead.authorization).send({ name: 'Worker cavity', ...testCavityGeometry })
-    cavityId = created.body.cavity.id
+    ;({ server, experimenter, cavityId } = await uploadOnlyLab({ ANALYSIS_JOB_TIMEOUT_SECONDS: '15' }))
   })
   afterEach(async () => {
     await Promise.all(workers.splice(0).map(stopWorker))

@@ -6,10 +6,10 @@
 import type { ChildProcess } from 'node:child_process'
 import request from 'supertest'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import { createActor, type TestActor } from '../support/actors'
-import { generatedTraceCsv, testCavityGeometry } from '../support/traceFiles'
-import { startTestServer, type TestServer } from '../support/testServer'
-import { startWorker, stopWorker, waitForStatus } from '../support/workerProcess'
+import type { TestActor } from '../support/actors'
+import { generatedTraceCsv } from '../support/traceFiles'
+import type { TestServer } from '../support/testServer'
+import { startWorker, stopWorker, uploadOnlyLab, waitForStatus } from '../support/workerProcess'
 
 describe('healing after a worker dies', () => {
   let server: TestServer
@@ -19,11 +19,7 @@ describe('healing after a worker dies', () => {
   const defaults = { ANALYSIS_JOB_TIMEOUT_SECONDS: '120' }
 
   beforeAll(async () => {
-    server = await startTestServer({ WORKER_THREADS: '0', ...defaults })
-    experimenter = await createActor(server.db, 'experimenter')
-    const lead = await createActor(server.db, 'lead')
-    const created = await request(server.url).post('/api/cavities').set('Authorization', lead.authorization).send({ name: 'Healing cavity', ...testCavityGeometry })
-    cavityId = created.body.cavity.id
+    ;({ server, experimenter, cavityId } = await uploadOnlyLab(defaults))
   })
   afterEach(async () => {
     await Promise.all(workers.splice(0).map(stopWorker))
@@ -44,25 +40,21 @@ describe('healing after a worker dies', () => {
     return { id, worker }
   }
 
-  it('when a worker is killed and another starts on the same machine then the job is handed on at its start and done within 30 s', async () => {
-    const { id, worker } = await longJobRunning(31)
-    worker.child.kill('SIGKILL')
-    const successor = await startWorker(server.database.url, defaults)
-    workers.push(successor.child)
-    const [row] = await waitForStatus(server, [id], ['done', 'failed'], 30_000)
-    expect(row).toMatchObject({ status: 'done', attempts: 2 })
-    expect(successor.log.join('')).toContain('its worker on this machine is gone')
-  }, 120_000)
-
-  it('when the dead worker was on another machine then its lapsed lease hands the job on within 30 s', async () => {
-    const { id, worker } = await longJobRunning(32)
-    // As if it ran elsewhere: the successor cannot ask the operating system about it and must notice the lease.
-    await server.db('analyses').where({ id }).update({ worker_host: 'another-machine' })
-    worker.child.kill('SIGKILL')
-    const successor = await startWorker(server.database.url, defaults)
-    workers.push(successor.child)
-    const [row] = await waitForStatus(server, [id], ['done', 'failed'], 30_000)
-    expect(row).toMatchObject({ status: 'done', attempts: 2 })
-    expect(successor.log.join('')).toContain('its worker stopped renewing the lease')
-  }, 120_000)
+  const cases = [
+    { when: 'another starts on the same machine', elsewhere: false, log: 'its worker on this machine is gone', how: 'at its start' },
+    { when: 'the dead worker was on another machine', elsewhere: true, log: 'its worker stopped renewing the lease', how: 'by its lapsed lease' },
+  ]
+  for (const [k, { when, elsewhere, log, how }] of cases.entries()) {
+    it(`when a worker is killed and ${when} then the job is handed on ${how} and done within 30 s`, async () => {
+      const { id, worker } = await longJobRunning(31 + k)
+      // As if it ran elsewhere: the successor cannot ask the operating system about it and must notice the lease.
+      if (elsewhere) await server.db('analyses').where({ id }).update({ worker_host: 'another-machine' })
+      worker.child.kill('SIGKILL')
+      const successor = await startWorker(server.database.url, defaults)
+      workers.push(successor.child)
+      const [row] = await waitForStatus(server, [id], ['done', 'failed'], 30_000)
+      expect(row).toMatchObject({ status: 'done', attempts: 2 })
+      expect(successor.log.join('')).toContain(log)
+    }, 120_000)
+  }
 })

@@ -1,6 +1,18 @@
 /** Stand-alone `npm run worker` processes on a test database, and waiting for analyses to reach a status. */
 import { spawn, type ChildProcess } from 'node:child_process'
-import type { TestServer } from './testServer'
+import request from 'supertest'
+import { createActor, type TestActor } from './actors'
+import { testCavityGeometry } from './traceFiles'
+import { startTestServer, type TestServer } from './testServer'
+
+/** An app instance that only takes uploads (WORKER_THREADS=0), an experimenter and a cavity to upload to. */
+export async function uploadOnlyLab(env: Record<string, string>): Promise<{ server: TestServer; experimenter: TestActor; cavityId: string }> {
+  const server = await startTestServer({ WORKER_THREADS: '0', ...env })
+  const experimenter = await createActor(server.db, 'experimenter')
+  const lead = await createActor(server.db, 'lead')
+  const created = await request(server.url).post('/api/cavities').set('Authorization', lead.authorization).send({ name: 'Worker cavity', ...testCavityGeometry })
+  return { server, experimenter, cavityId: created.body.cavity.id as string }
+}
 
 /** A stand-alone `npm run worker` process on the test database; resolves once it takes jobs. */
 export function startWorker(databaseUrl: string, env: Record<string, string> = {}): Promise<{ child: ChildProcess; log: string[] }> {
