@@ -78,7 +78,7 @@ export function readTrace(input: Uint8Array, options: ReadTraceOptions = {}): Tr
     headerStartSeconds: timing.startSeconds,
     optionIntervalSeconds: sampleIntervalSeconds,
   })
-  warnings.push(...axis.warnings)
+  warnings.push(...axis.warnings, ...intervalDoubts(axis.sampleInterval))
 
   assignRoles(channels, roles)
   return {
@@ -107,6 +107,20 @@ function assertOptions(interval: number | undefined, maxBytes: number, roles: Re
       throw new EngineError('invalid_option', `The role "${String(role)}" for channel "${key}" is not one of ${ROLES.join(', ')}.`)
     }
   }
+}
+
+/**
+ * A swept-cavity record samples at nanoseconds to milliseconds (sweeps of Hz to kHz; common practice, no published
+ * source); an interval outside 1 ps … 1 s is more likely a wrong time unit or a mistyped --interval.
+ */
+function intervalDoubts(intervalSeconds: number): EngineWarning[] {
+  if (intervalSeconds >= 1e-12 && intervalSeconds <= 1) return []
+  return [
+    {
+      code: 'implausible_interval',
+      message: `The sample interval is ${intervalSeconds.toPrecision(3)} s, outside what a swept-cavity record uses (about 1 ns to 1 ms); check the time unit in the file or the interval given. Times and linewidths in seconds follow from it.`,
+    },
+  ]
 }
 
 function assertBody(scanned: ScannedColumns, layout: TraceLayout): void {

@@ -29,6 +29,14 @@ describe('readTrace errors name the problem', () => {
     expect(engineErrorOf(utf8(['t,ch1', ...allNan].join('\n'))).message).toMatch(/^Columns 1, 2 of the file hold only NaN/)
   })
 
+  it('when the sample interval is 1e9 s then implausible_interval warns; at 1 µs it does not', () => {
+    const column = Array.from({ length: 200 }, (_, i) => Math.sin(i / 10).toFixed(4)).join('\n')
+    const slow = readTrace(utf8(column), { sampleIntervalSeconds: 1e9 })
+    expect(slow.warnings.find((warning) => warning.code === 'implausible_interval')?.message).toMatch(/^The sample interval is 1.00e\+9 s/)
+    const usual = readTrace(utf8(column), { sampleIntervalSeconds: 1e-6 })
+    expect(usual.warnings.map((warning) => warning.code)).not.toContain('implausible_interval')
+  })
+
   it('when one of two channels printed NaN throughout then the other is still read', () => {
     const rows = Array.from({ length: 200 }, (_, i) => `${(i * 1e-5).toFixed(5)},${Math.sin(i / 10).toFixed(4)},NaN`)
     const trace = readTrace(utf8(['time,ch1,ch2', ...rows].join('\n')))
