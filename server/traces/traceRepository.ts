@@ -1,6 +1,7 @@
 /** Data access for uploaded traces. The raw bytes are only loaded when asked for. */
 import type { TraceRecord } from '../../shared/api/tuningTypes'
 import type { Db } from '../db/knex'
+import { readContentChunks, writeContentChunks } from './traceContentChunks'
 
 export type { TraceRecord }
 
@@ -13,7 +14,7 @@ interface TraceRow {
   note: string
   uploaded_by: number | null
   uploaded_at: Date
-  content_gzip?: Buffer
+  content_gzip?: Buffer | null
 }
 
 const columns = ['id', 'cavity_id', 'sha256', 'file_name', 'size_bytes', 'note', 'uploaded_by', 'uploaded_at']
@@ -41,32 +42,40 @@ export async function findTrace(db: Db, id: string): Promise<TraceRecord | null>
   return row ? toTrace(row) : null
 }
 
-/** Insert a trace; when the same file is already stored for the cavity, return the existing one. */
+/**
+ * Insert a trace; when the same file is already stored for the cavity, return the existing one. The content comes
+ * whole (`contentGzip`) or as a gzip file (`gzipPath`) stored in chunks, in one transaction with the row.
+ */
 export async function insertTrace(
   db: Db,
-  trace: { cavityId: string; sha256: string; fileName: string; sizeBytes: number; contentGzip: Buffer; note: string; uploadedBy: number | null },
+  trace: { cavityId: string; sha256: string; fileName: string; sizeBytes: number; note: string; uploadedBy: number | null } & ({ contentGzip: Buffer } | { gzipPath: string }),
 ): Promise<{ trace: TraceRecord; created: boolean }> {
-  const rows = await db<TraceRow>('traces')
-    .insert({
-      cavity_id: trace.cavityId,
-      sha256: trace.sha256,
-      file_name: trace.fileName,
-      size_bytes: trace.sizeBytes,
-      content_gzip: trace.contentGzip,
-      note: trace.note,
-      uploaded_by: trace.uploadedBy,
-    })
-    .onConflict(['cavity_id', 'sha256'])
-    .ignore()
-    .returning(columns)
-  if (rows.length > 0) return { trace: toTrace(rows[0] as TraceRow), created: true }
+  const created = await db.transaction(async (trx) => {
+    const rows = await trx<TraceRow>('traces')
+      .insert({
+        cavity_id: trace.cavityId,
+        sha256: trace.sha256,
+        file_name: trace.fileName,
+        size_bytes: trace.sizeBytes,
+        content_gzip: 'contentGzip' in trace ? trace.contentGzip : null,
+        note: trace.note,
+        uploaded_by: trace.uploadedBy,
+      })
+      .onConflict(['cavity_id', 'sha256'])
+      .ignore()
+      .returning(columns)
+    if (rows.length > 0 && 'gzipPath' in trace) await writeContentChunks(trx, (rows[0] as TraceRow).id, trace.gzipPath)
+    return rows[0] as TraceRow | undefined
+  })
+  if (created) return { trace: toTrace(created), created: true }
   const existing = await findTraceBySha(db, trace.cavityId, trace.sha256)
   if (!existing) throw new Error('trace vanished between insert and read')
   return { trace: existing, created: false }
 }
 
-/** The stored gzip bytes of a trace. */
+/** The stored gzip bytes of a trace (whole, or joined from its chunks). */
 export async function readTraceContent(db: Db, id: string): Promise<Buffer | null> {
   const row = await db<TraceRow>('traces').select('content_gzip').where({ id }).first()
-  return row?.content_gzip ?? null
+  if (!row) return null
+  return row.content_gzip ?? (await readContentChunks(db, id))
 }

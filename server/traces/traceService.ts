@@ -3,7 +3,6 @@
  * same cavity links to the stored one) and queue its analysis. Nothing is parsed here: a file that is
  * not a trace becomes a failed analysis with a clear error, and the file stays.
  */
-import { readFile } from 'node:fs/promises'
 import type { AnalysisOptions } from '../../shared/api/cavitySchemas'
 import type { UploadOutcome } from '../../shared/api/tuningTypes'
 import { finishAnalysis, insertAnalysis, type AnalysisRecord } from '../analyses/analysisRepository'
@@ -54,9 +53,8 @@ export async function uploadTraces(context: UploadContext, cavityId: string, fil
   if (cavity.archived) throw new HttpError(409, 'cavity_archived', `Cavity "${cavity.name}" is archived; un-archive it before uploading.`)
   const outcomes: UploadOutcome[] = []
   for (const file of files) {
-    // One file's compressed bytes in memory at a time.
-    const contentGzip = await readFile(file.gzipPath)
-    const { trace, created } = await insertTrace(context.db, { cavityId, sha256: file.sha256, fileName: file.fileName, sizeBytes: file.sizeBytes, contentGzip, note, uploadedBy: userId })
+    // Stored from the temporary file in 1 MiB pieces: never whole in memory.
+    const { trace, created } = await insertTrace(context.db, { cavityId, sha256: file.sha256, fileName: file.fileName, sizeBytes: file.sizeBytes, gzipPath: file.gzipPath, note, uploadedBy: userId })
     const existing = created ? null : await latestAnalysisOfTrace(context.db, trace.id)
     const analysis = existing ?? (await queueAnalysis(context, trace, {}, userId))
     outcomes.push({ trace, analysis, created })

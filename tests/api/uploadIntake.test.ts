@@ -67,6 +67,22 @@ describe('upload intake', () => {
     throw new Error('the analysis did not finish')
   })
 
+  it('when an export compresses to more than 1 MiB then it is stored in pieces and downloads byte for byte', async () => {
+    // Pseudo-random digits compress poorly, so about 4 MB of text stays over 1 MiB gzip-compressed.
+    let state = 12345
+    const next = () => (state = (state * 1103515245 + 12345) % 2147483648) / 2147483648
+    const csv = `t,v\n${Array.from({ length: 200_000 }, (_, i) => `${i},${next().toFixed(12)}`).join('\n')}\n`
+    const response = await upload().attach('file', Buffer.from(csv), 'pieces.csv')
+    expect(response.status, JSON.stringify(response.body)).toBe(202)
+    const id = response.body.uploads[0].trace.id
+    const pieces = await server.db('trace_content_chunks').where({ trace_id: id }).count<{ count: string }[]>('* as count')
+    expect(Number(pieces[0].count)).toBeGreaterThanOrEqual(2)
+    expect((await server.db('traces').where({ id }).first('content_gzip')).content_gzip).toBeNull()
+    const download = await request(server.url).get(`/api/traces/${id}/file`).set('Authorization', experimenter.authorization)
+    expect(download.status).toBe(200)
+    expect(createHash('sha256').update(download.text).digest('hex')).toBe(createHash('sha256').update(csv).digest('hex'))
+  })
+
   it('when a binary file comes with a good export then 415 names it and nothing of the request is stored', async () => {
     const before = await traceCount(server)
     const binary = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0x00, 0x00, 0x00, 0x0d, 0x49, 0x48, 0x44, 0x52])
