@@ -24,10 +24,13 @@ function originOf(url: string | undefined): string | null {
   }
 }
 
+/**
+ * This app's origin: APP_URL when it is set (the Host header is the client's to choose, so it is not believed then);
+ * without APP_URL, the origin the request was addressed to (a development or single-machine install).
+ */
 function allowedOrigins(req: Request, config: AppConfig): Set<string> {
-  const own = new Set<string>([`${req.protocol}://${req.get('host') ?? ''}`])
-  if (config.APP_URL) own.add(new URL(config.APP_URL).origin)
-  return own
+  if (config.APP_URL) return new Set([new URL(config.APP_URL).origin])
+  return new Set([`${req.protocol}://${req.get('host') ?? ''}`])
 }
 
 export function csrfProtection(config: AppConfig): RequestHandler {

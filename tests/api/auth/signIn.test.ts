@@ -109,6 +109,20 @@ describe('sign-in, sessions and cross-site request forgery', () => {
     }
   })
 
+  it('when APP_URL is set then a write whose Origin only matches the Host header is refused, and APP_URL is accepted (issue 17)', async () => {
+    const behindName = await startTestServer({ APP_URL: 'https://cavitrace.lab.example' })
+    try {
+      const person = await createPerson(behindName, 'viewer')
+      const hostOnly = await request(behindName.url).post('/api/auth/login').set('Origin', behindName.url).send({ email: person.email, password: testPassword })
+      expect(hostOnly.status).toBe(403)
+      expect(hostOnly.body.error.code).toBe('csrf_refused')
+      const named = await request(behindName.url).post('/api/auth/login').set('Origin', 'https://cavitrace.lab.example').send({ email: person.email, password: testPassword })
+      expect(named.status).toBe(200)
+    } finally {
+      await behindName.close()
+    }
+  })
+
   it('when sign-in succeeds or fails then the audit log records both', async () => {
     const person = await createPerson(server, 'viewer')
     await signedIn(server, person.email)
