@@ -35,9 +35,14 @@ export async function requestPasswordReset(context: AccountsContext, input: Rese
   const user = await findUserByEmail(db, input.email)
   await recordAudit(db, { event: 'auth.reset_requested', subject: input.email, ip, details: { known: Boolean(user && !user.disabledAt) } })
   if (!user || user.disabledAt) return
-  const { secret, hash } = newLinkToken()
-  await insertPasswordReset(db, { userId: user.id, hash, expiresAt: new Date(Date.now() + resetLinkLifetimeMs) })
-  mailer.sendLater(passwordResetMail({ to: user.email, name: user.name, baseUrl: context.publicUrl(), token: secret }))
+  // The link is stored and mailed after the answer: a known address must not take longer to answer than an unknown one.
+  setImmediate(() => {
+    const { secret, hash } = newLinkToken()
+    insertPasswordReset(db, { userId: user.id, hash, expiresAt: new Date(Date.now() + resetLinkLifetimeMs) }).then(
+      () => mailer.sendLater(passwordResetMail({ to: user.email, name: user.name, baseUrl: context.publicUrl(), token: secret })),
+      (error: unknown) => context.logger.error({ err: error }, 'could not store a password reset link'),
+    )
+  })
 }
 
 /**

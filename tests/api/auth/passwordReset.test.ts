@@ -31,6 +31,23 @@ describe('password reset, end to end through the SMTP fake', () => {
     expect(await server.db('outbox_messages').whereRaw("'no-such-person@lab.cavitrace.test' = any(envelope_to)")).toHaveLength(0)
   })
 
+  it('when the address is known then the answer does not wait for the link to be stored (no timing difference to read, issue 17)', async () => {
+    const person = await createPerson(server, 'viewer')
+    // Hold the table the link goes into: an answer that waited for the insert could not come while this lock stands.
+    const lock = await server.db.transaction()
+    try {
+      await lock.raw('LOCK TABLE password_resets IN ACCESS EXCLUSIVE MODE')
+      const known = await browserAgent(server).post('/api/auth/reset-request').send({ email: person.email }).timeout(5000)
+      expect(known.status).toBe(202)
+      expect(await lock('password_resets').where({ user_id: person.id })).toHaveLength(0)
+    } finally {
+      await lock.commit()
+    }
+    // Once the table is free the link is stored and mailed.
+    await waitForMail(server.db, person.email, { subject: /Reset/ })
+    expect(await server.db('password_resets').where({ user_id: person.id })).toHaveLength(1)
+  })
+
   it('when the link is followed then the new password works, the old one and every earlier session stop working', async () => {
     const person = await createPerson(server, 'experimenter')
     const earlier = await signedIn(server, person.email)
