@@ -37,7 +37,7 @@ describe('loadConfig', () => {
 
   it('when the server is started with a bad value then it exits non-zero naming the variable', () => {
     const result = spawnSync('node_modules/.bin/tsx', ['server/main.ts'], { env: { ...process.env, ...base, PORT: 'seventy' }, encoding: 'utf8' })
-    expect(result.status).toBe(1)
+    expect(result.status).toBe(78) // EX_CONFIG: `npm start` does not start it again
     expect(result.stderr).toContain('PORT')
     expect(result.stderr).not.toMatch(/at .*\.ts:\d+/) // a message, not a stack trace
   })

@@ -1,6 +1,6 @@
 /** `npm start` keeps the server up: scripts/lib/supervise.mjs with real child processes. */
 import { spawn } from 'node:child_process'
-import { mkdtempSync, readFileSync } from 'node:fs'
+import { existsSync, mkdtempSync, readFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { describe, expect, it } from 'vitest'
@@ -35,11 +35,14 @@ describe('supervise', () => {
       start: () => {
         starts += 1
         const process_ = child(log, 'setInterval(() => {}, 1000)')
-        // First run: killed as by `kill -9`. Second run: stopped on purpose.
-        setTimeout(() => {
-          if (starts === 2) stopping = true
-          process_.kill(starts === 1 ? 'SIGKILL' : 'SIGTERM')
-        }, 300)
+        // Once this run has written its line: the first is killed as by `kill -9`, the second stopped on purpose.
+        const run = starts
+        const whenRunning = setInterval(() => {
+          if (!existsSync(log) || runsIn(log) < run) return
+          clearInterval(whenRunning)
+          if (run === 2) stopping = true
+          process_.kill(run === 1 ? 'SIGKILL' : 'SIGTERM')
+        }, 20)
         return process_
       },
       isStopping: () => stopping,
