@@ -146,6 +146,19 @@ export default async function benchApi(): Promise<void> {
           `| GET ${path.replace(/[0-9a-f-]{36}/g, ':id')} at 200 req/s for 8 s | p50 ${result.latency.p50} ms | p99 ${result.latency.p99} ms | ${result.requests.total} requests, ${result.non2xx} non-2xx | target p99 < 50 ms |`,
         )
       }
+
+      // Isolation (issue 17): the same read while a burst of 20 uploads (new files) is taken in and analysed.
+      const burst = Array.from({ length: 20 }, (_, k) => generatedTraceCsv({ sampleCount: 100_000, fsrCount: 2.5, seed: 700 + k }))
+      const reads = autocannon({ url: `${server.url}/api/cavities`, headers, connections: 10, overallRate: 200, duration: 8 })
+      await Promise.all(
+        burst.map((csv, k) => {
+          const form = new FormData()
+          form.append('file', new Blob([csv]), `burst-${k}.csv`)
+          return fetch(`${server.url}/api/cavities/${cavity.id}/traces`, { method: 'POST', headers, body: form }).then((response) => response.arrayBuffer())
+        }),
+      )
+      const during = await reads
+      console.log(`| GET /api/cavities at 200 req/s during a burst of 20 uploads | p50 ${during.latency.p50} ms | p99 ${during.latency.p99} ms | ${during.requests.total} requests, ${during.non2xx} non-2xx | target p99 < 100 ms |`)
     } finally {
       await server.stop()
     }
