@@ -1,6 +1,7 @@
 import Papa from 'papaparse'
 import { EngineError, type EngineWarning } from '../errors'
 import { CellKind, classifyCell } from './classifyCell'
+import { silentColumns } from './silentColumns'
 import { parseUnit } from './parseUnit'
 import { readHeaderTiming } from './readHeaderTiming'
 
@@ -60,17 +61,6 @@ const CHANNEL_NAME_KEY = /^(?:source|channel|name|label|trace|signal)$/i
 const VALUE_UNIT_KEY = /^(?:vertical|y|amplitude|voltage|value)?\s*units?$/i
 const TIME_UNIT_KEY = /^(?:horizontal|x|time)\s*units?$/i
 const COMMENT_MARK = /^\s*(?:#+|%+|\/\/|;+)\s*/
-
-/** Columns (0-based) whose cells in `rows` are all NaN tokens or out-of-range words (none a number, none blank). */
-function silentColumns(rows: Array<{ kinds: ArrayLike<number> }>): number[] {
-  const width = rows.reduce((most, row) => Math.max(most, row.kinds.length), 0)
-  const silent: number[] = []
-  for (let column = 0; column < width; column++) {
-    const quiet = rows.length > 0 && rows.every((row) => row.kinds[column] === CellKind.Missing || row.kinds[column] === CellKind.Clipped)
-    if (quiet) silent.push(column)
-  }
-  return silent
-}
 
 /**
  * Work out the layout of a text export from its first lines: delimiter (papaparse tokenises each candidate),
