@@ -14,8 +14,9 @@ export interface AlertInputs {
   /** Median finesse of the cavity's done analyses in the 30 days before this one; null with too few. */
   medianFinesse: number | null
   /**
-   * The engine says its reading of the spectrum may be wrong (`ambiguous_reading`): its TEM00 fraction neither
-   * raises nor clears the target alert. @default false
+   * The result's warnings or shares undermine it (shared/api/resultTrust.ts: an ambiguous reading, a geometry that
+   * disagrees, many unassigned peaks, a share outside 0–100 %): its TEM00 fraction neither raises nor clears the
+   * target alert. @default false
    */
   readingInDoubt?: boolean
 }

@@ -92,7 +92,7 @@ describe('history, overview and comparison', () => {
     expect(response.headers['content-disposition']).toContain('Overview_main_cavity-history.csv')
     const parsed = Papa.parse<Record<string, string>>(response.text, { header: true, skipEmptyLines: true })
     expect(parsed.errors).toEqual([])
-    expect(parsed.meta.fields).toEqual(['created_at', 'analysis_id', 'trace_id', 'file_name', 'note', 'status', 'fundamental_fraction', 'finesse', 'linewidth_hz'])
+    expect(parsed.meta.fields).toEqual(['created_at', 'analysis_id', 'trace_id', 'file_name', 'note', 'status', 'fundamental_fraction', 'fundamental_fraction_error', 'finesse', 'linewidth_hz', 'doubt', 'excluded_reason'])
     expect(parsed.data.map((row) => row.analysis_id)).toEqual([scans[2].analysisId, scans[1].analysisId])
     expect(Number(parsed.data[0].fundamental_fraction)).toBe(scans[2].fraction)
     expect(parsed.data[0].created_at).toBe(scans[2].at.toISOString())
