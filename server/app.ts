@@ -21,6 +21,7 @@ import { mailCaptureOn, type AppConfig } from './config'
 import type { Db } from './db/knex'
 import { healthRoutes } from './health/healthRoutes'
 import { cavityRoutes } from './cavities/cavityRoutes'
+import { correctionRoutes } from './corrections/correctionRoutes'
 import type { AnalysisQueue } from './jobs/analysisQueue'
 import type { EventHub } from './jobs/eventHub'
 import { traceRoutes } from './traces/traceRoutes'
@@ -86,6 +87,7 @@ export function createApp(context: AppContext): Express {
   api.use(auditRoutes(db))
   api.use(cavityRoutes(context))
   api.use(traceRoutes(context))
+  api.use(correctionRoutes(context))
   // Before the analysis routes: /analyses/compare must not be read as /analyses/:id.
   api.use(overviewRoutes(context))
   api.use(analysisRoutes(context))

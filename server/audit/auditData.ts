@@ -18,6 +18,11 @@ export type AuditEvent =
   | 'invitation.accepted'
   | 'token.created'
   | 'token.revoked'
+  | 'trace.deleted'
+  | 'trace.restored'
+  | 'trace.moved'
+  | 'analysis.excluded'
+  | 'analysis.included'
 
 export interface AuditRecordInput {
   event: AuditEvent

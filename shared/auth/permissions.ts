@@ -14,6 +14,9 @@ export const actions = [
   'targets.write',
   'traces.upload',
   'analyses.run',
+  'uploads.correct',
+  'uploads.correctAny',
+  'uploads.restore',
   'notes.write',
   'logbook.write',
   'lenses.write',
@@ -32,6 +35,9 @@ export const actionSummaries: Record<Action, string> = {
   'targets.write': 'Set mode-match and finesse targets and their alerts.',
   'traces.upload': 'Upload oscilloscope traces.',
   'analyses.run': 'Run and re-run analyses.',
+  'uploads.correct': 'Delete or move one’s own uploaded traces and exclude their analyses from history, trends and alerts.',
+  'uploads.correctAny': 'Delete, move or exclude anyone’s uploads.',
+  'uploads.restore': 'Restore a deleted trace within 30 days.',
   'notes.write': 'Write notes on traces and analyses.',
   'logbook.write': 'Write maintenance-log entries with attachments.',
   'lenses.write': 'Edit the lab’s lens kit.',
@@ -43,10 +49,11 @@ export const actionSummaries: Record<Action, string> = {
 }
 
 const everyone: readonly Action[] = ['lab.read', 'tokens.manageOwn']
-const experimenterActions: readonly Action[] = [...everyone, 'traces.upload', 'analyses.run', 'notes.write']
-const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'logbook.write', 'lenses.write']
+// Whoever may upload may undo their own wrong upload.
+const experimenterActions: readonly Action[] = [...everyone, 'traces.upload', 'uploads.correct', 'analyses.run', 'notes.write']
+const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'uploads.correct', 'logbook.write', 'lenses.write']
 // A lead runs the lab's bench work as well as its plans, so it may do what experimenters and technicians do.
-const leadActions: readonly Action[] = [...new Set([...experimenterActions, ...technicianActions, 'cavities.write', 'targets.write', 'lenses.write'] as Action[])]
+const leadActions: readonly Action[] = [...new Set([...experimenterActions, ...technicianActions, 'cavities.write', 'targets.write', 'lenses.write', 'uploads.correctAny'] as Action[])]
 
 /** The permission table: each role and the actions it may perform. */
 export const permissionTable: Readonly<Record<Role, readonly Action[]>> = {

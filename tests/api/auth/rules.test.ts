@@ -17,6 +17,10 @@ describe('the permission table', () => {
     expect(rolesAllowed('logbook.write')).toEqual(['admin', 'lead', 'technician'])
     expect(rolesAllowed('traces.upload')).toEqual(['admin', 'lead', 'experimenter', 'technician'])
     expect(rolesAllowed('lab.read')).toEqual([...roles])
+    // Undoing a wrong upload (issue 13): whoever uploads may correct their own; leads and admins anyone's; admins restore.
+    expect(rolesAllowed('uploads.correct')).toEqual(rolesAllowed('traces.upload'))
+    expect(rolesAllowed('uploads.correctAny')).toEqual(['admin', 'lead'])
+    expect(rolesAllowed('uploads.restore')).toEqual(['admin'])
     expect(permissionTable.viewer).toEqual(['lab.read', 'tokens.manageOwn'])
   })
 
