@@ -15,6 +15,7 @@ interface CavityRow {
   reflectivity2: number | null
   modulation_mhz: number | null
   target_fundamental_fraction: number | null
+  sample_interval_s: number | null
   archived: boolean
   created_at: Date
   updated_at: Date
@@ -34,6 +35,7 @@ function toCavity(row: CavityRow): Cavity {
     ...(row.reflectivity2 === null ? {} : { reflectivity2: row.reflectivity2 }),
     ...(row.modulation_mhz === null ? {} : { modulationMHz: row.modulation_mhz }),
     targetFundamentalFraction: row.target_fundamental_fraction,
+    sampleIntervalSeconds: row.sample_interval_s,
     archived: row.archived,
     createdAt: row.created_at.toISOString(),
     updatedAt: row.updated_at.toISOString(),
@@ -80,6 +82,11 @@ export async function findCavityByName(db: Db, name: string): Promise<Cavity | n
 export async function insertCavity(db: Db, input: CavityInput): Promise<Cavity> {
   const [row] = await db<CavityRow>('cavities').insert(toRow(input)).returning('*')
   return toCavity(row as CavityRow)
+}
+
+/** Remember the sample interval last given for a cavity's one-column exports. */
+export async function rememberSampleInterval(db: Db, id: string, seconds: number): Promise<void> {
+  await db('cavities').where({ id }).update({ sample_interval_s: seconds })
 }
 
 export async function updateCavity(db: Db, id: string, patch: CavityPatch): Promise<Cavity | null> {
