@@ -83,16 +83,19 @@ export interface UploadProgress {
 export interface UploadRequest {
   files: File[]
   note?: string
+  /** Seconds between samples, for exports without a time column. */
+  sampleIntervalSeconds?: number
   onProgress?: (progress: UploadProgress) => void
   signal?: AbortSignal
 }
 
 /** `POST /api/cavities/:id/traces` as multipart, reporting upload progress. */
 export function uploadTraces(cavityId: string, request: UploadRequest): Promise<{ uploads: UploadOutcome[] }> {
-  const { files, note = '', onProgress, signal } = request
+  const { files, note = '', sampleIntervalSeconds, onProgress, signal } = request
   const form = new FormData()
   for (const file of files) form.append('file', file, file.name)
   if (note.trim()) form.append('note', note.trim())
+  if (sampleIntervalSeconds !== undefined) form.append('sampleIntervalSeconds', String(sampleIntervalSeconds))
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest()
     xhr.open('POST', `/api/cavities/${enc(cavityId)}/traces`)

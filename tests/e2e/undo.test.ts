@@ -11,6 +11,7 @@ import { launchBrowser, type TestBrowser } from '../support/browser'
 import { generatedTraceCsv, testCavityGeometry, writeTempFile } from '../support/traceFiles'
 import { startTestServer, type TestServer } from '../support/testServer'
 import { createPerson, testPassword } from '../api/auth/accountsTestKit'
+import { signInThroughPage } from '../support/signInPage'
 
 describe('undoing a wrong upload in a real browser', () => {
   let server: TestServer
@@ -23,15 +24,7 @@ describe('undoing a wrong upload in a real browser', () => {
   let wrongAnalysisId: string
   let movedAnalysisId: string
 
-  async function signIn(email: string) {
-    const { page } = browser
-    await page.context().clearCookies()
-    await page.goto(`${server.url}/sign-in`)
-    await page.getByTestId('sign-in-email').fill(email)
-    await page.locator('#sign-in-password').fill(testPassword)
-    await page.getByTestId('sign-in-submit').click()
-    await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'))
-  }
+  const signIn = (email: string) => signInThroughPage(browser, server.url, email, testPassword)
 
   async function dropOnTuningPage(fileName: string, content: string) {
     const { page } = browser
