@@ -42,6 +42,8 @@ export async function buildOverview(db: Db, userId: number | null, options: { no
     breachedKindsByCavity(db),
     userId === null ? Promise.resolve(new Set<string>()) : watchedCavityIds(db, userId),
   ])
+  // Archived cavities keep their slot too, so un-archiving one changes nobody's colour.
+  const slots = new Map(((await db('cavities').orderBy([{ column: 'created_at' }, { column: 'id' }]).select('id')) as Array<{ id: string }>).map((row, i) => [row.id, i]))
   const dropPercents = new Map(((await db('cavities').select('id', 'finesse_drop_percent')) as Array<{ id: string; finesse_drop_percent: number | null }>).map((row) => [row.id, row.finesse_drop_percent]))
 
   const rows: OverviewRow[] = cavities.map((cavity) => {
@@ -71,6 +73,7 @@ export async function buildOverview(db: Db, userId: number | null, options: { no
       activeAlerts: breaches.get(cavity.id) ?? [],
       lastMaintenance: lastEntries.get(cavity.id) ?? null,
       watchedByMe: watched.has(cavity.id),
+      colourSlot: slots.get(cavity.id) ?? 0,
     }
   })
   return { generatedAt: now.toISOString(), windowDays, cavities: rows }

@@ -27,6 +27,8 @@ export interface OverviewRow {
   activeAlerts: AlertKind[]
   lastMaintenance: { entryId: string; occurredAt: string; kind: string; kindLabel: string } | null
   watchedByMe: boolean
+  /** The cavity's own place in the chart palette: its order of creation, so adding a cavity changes no colour. */
+  colourSlot: number
 }
 
 export interface Overview {

@@ -183,4 +183,14 @@ describe('history, overview and comparison', () => {
     expect(missing.body.error.message).toContain('b')
     expect((await request(server.url).get(`/api/analyses/compare?a=${scans[0].analysisId}&b=${scans[1].analysisId}`)).status).toBe(401)
   })
+
+  it('when a cavity whose name sorts first is added then every other cavity keeps its chart colour slot', async () => {
+    const slots = async () => new Map(((await get(viewer, '/api/overview')).body.cavities as Array<{ cavityId: string; colourSlot: number }>).map((row) => [row.cavityId, row.colourSlot]))
+    const before = await slots()
+    const added = await request(server.url).post('/api/cavities').set('Authorization', lead.authorization).send({ name: 'AAA first by name', ...testCavityGeometry })
+    expect(added.status).toBe(201)
+    const after = await slots()
+    for (const [id, slot] of before) expect(after.get(id)).toBe(slot)
+    expect(after.get(added.body.cavity.id)).toBe(Math.max(...before.values(), 0) + 2) // the archived cavity keeps its slot too
+  })
 })
