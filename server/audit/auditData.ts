@@ -23,6 +23,9 @@ export type AuditEvent =
   | 'trace.moved'
   | 'analysis.excluded'
   | 'analysis.included'
+  | 'cavity.proposed'
+  | 'cavity.approved'
+  | 'cavity.rejected'
 
 export interface AuditRecordInput {
   event: AuditEvent

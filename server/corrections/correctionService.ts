@@ -63,6 +63,7 @@ export async function moveTrace(context: UploadContext, actor: Actor, traceId: s
   const [from, to] = [await getCavity(context.db, trace.cavityId), await getCavity(context.db, toCavityId)]
   if (from.id === to.id) throw new HttpError(409, 'same_cavity', `The trace already belongs to "${to.name}".`)
   if (to.archived) throw new HttpError(409, 'cavity_archived', `Cavity "${to.name}" is archived; un-archive it before moving traces to it.`)
+  if (to.pending) throw new HttpError(409, 'cavity_not_approved', `Cavity "${to.name}" waits for approval; move the trace once it is approved.`)
   const previous = await latestAnalysisOfTrace(context.db, trace.id)
   try {
     await moveTraceRows(context.db, trace.id, to.id, { by: actor.id, reason: `Read as "${from.name}" before the trace was moved to "${to.name}".` })

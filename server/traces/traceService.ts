@@ -55,6 +55,7 @@ export async function uploadTraces(context: UploadContext, cavityId: string, fil
   if (files.length === 0) throw new HttpError(400, 'no_file', 'No file was uploaded: send the export in the multipart field "file".')
   const cavity = await getCavity(context.db, cavityId)
   if (cavity.archived) throw new HttpError(409, 'cavity_archived', `Cavity "${cavity.name}" is archived; un-archive it before uploading.`)
+  if (cavity.pending) throw new HttpError(409, 'cavity_not_approved', `Cavity "${cavity.name}" is proposed and waits for a lead or an admin to approve it; upload once it is approved.`)
   const outcomes: UploadOutcome[] = []
   for (const file of files) {
     const sha256 = createHash('sha256').update(file.bytes).digest('hex')

@@ -24,6 +24,10 @@ export interface Cavity extends CavityInput {
   id: string
   /** Sample interval last given for this cavity's one-column exports (s); used when an export states none. */
   sampleIntervalSeconds: number | null
+  /** Proposed by an experimenter and not yet approved by a lead or an admin: out of the lists, no uploads. */
+  pending: boolean
+  /** Who proposed it (null when a lead or an admin created it). */
+  proposedBy: number | null
   createdAt: string
   updatedAt: string
 }

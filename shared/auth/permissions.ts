@@ -20,6 +20,9 @@ export const actions = [
   'notes.write',
   'logbook.write',
   'lenses.write',
+  'plans.write',
+  'plans.manageAny',
+  'cavities.propose',
   'tokens.manageOwn',
   'tokens.manageAll',
   'users.manage',
@@ -41,6 +44,9 @@ export const actionSummaries: Record<Action, string> = {
   'notes.write': 'Write notes on traces and analyses.',
   'logbook.write': 'Write maintenance-log entries with attachments.',
   'lenses.write': 'Edit the lab’s lens kit.',
+  'plans.write': 'Save lens plans, and delete one’s own.',
+  'plans.manageAny': 'Delete anyone’s lens plans.',
+  'cavities.propose': 'Propose a new cavity, which a lead or an admin approves.',
   'tokens.manageOwn': 'Create, list and revoke one’s own API tokens.',
   'tokens.manageAll': 'List and revoke anyone’s API tokens.',
   'users.manage': 'Invite people, change roles, disable accounts.',
@@ -50,10 +56,11 @@ export const actionSummaries: Record<Action, string> = {
 
 const everyone: readonly Action[] = ['lab.read', 'tokens.manageOwn']
 // Whoever may upload may undo their own wrong upload.
-const experimenterActions: readonly Action[] = [...everyone, 'traces.upload', 'uploads.correct', 'analyses.run', 'notes.write']
-const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'uploads.correct', 'logbook.write', 'lenses.write']
+// An experimenter with a new setup proposes its cavity; a technician who keeps the lens kit saves plans from it.
+const experimenterActions: readonly Action[] = [...everyone, 'traces.upload', 'uploads.correct', 'analyses.run', 'notes.write', 'plans.write', 'cavities.propose']
+const technicianActions: readonly Action[] = [...everyone, 'traces.upload', 'uploads.correct', 'logbook.write', 'lenses.write', 'plans.write']
 // A lead runs the lab's bench work as well as its plans, so it may do what experimenters and technicians do.
-const leadActions: readonly Action[] = [...new Set([...experimenterActions, ...technicianActions, 'cavities.write', 'targets.write', 'lenses.write', 'uploads.correctAny'] as Action[])]
+const leadActions: readonly Action[] = [...new Set([...experimenterActions, ...technicianActions, 'cavities.write', 'targets.write', 'lenses.write', 'uploads.correctAny', 'plans.manageAny'] as Action[])]
 
 /** The permission table: each role and the actions it may perform. */
 export const permissionTable: Readonly<Record<Role, readonly Action[]>> = {
@@ -68,8 +75,8 @@ export const permissionTable: Readonly<Record<Role, readonly Action[]>> = {
 export const roleLabels: Record<Role, { label: string; summary: string }> = {
   admin: { label: 'Admin', summary: 'People, roles, tokens, the audit log — and everything else.' },
   lead: { label: 'Lead', summary: 'Creates and edits cavities, targets and alerts; sees and compares all; bench work too.' },
-  experimenter: { label: 'Experimenter', summary: 'Uploads traces, runs and re-runs analyses, writes notes.' },
-  technician: { label: 'Technician', summary: 'Keeps the maintenance log with attachments, the lens kit, and uploads traces.' },
+  experimenter: { label: 'Experimenter', summary: 'Uploads traces, runs and re-runs analyses, writes notes, saves lens plans, proposes cavities.' },
+  technician: { label: 'Technician', summary: 'Keeps the maintenance log with attachments and the lens kit, saves lens plans, uploads traces.' },
   viewer: { label: 'Viewer', summary: 'Reads everything, changes nothing.' },
 }
 

@@ -25,6 +25,23 @@ export function createCavity(input: CavityInput): Promise<{ cavity: Cavity }> {
   return apiRequest('/cavities', { method: 'POST', body: input })
 }
 
+/** Cavities proposed by experimenters, waiting for a lead or an admin. */
+export function listProposals(signal?: AbortSignal): Promise<{ cavities: Cavity[] }> {
+  return apiRequest('/cavity-proposals', { signal })
+}
+
+export function proposeCavity(input: CavityInput): Promise<{ cavity: Cavity }> {
+  return apiRequest('/cavity-proposals', { method: 'POST', body: input })
+}
+
+export function approveCavity(id: string): Promise<{ cavity: Cavity }> {
+  return apiRequest(`/cavities/${enc(id)}/approve`, { method: 'POST' })
+}
+
+export function rejectProposal(id: string): Promise<null> {
+  return apiRequest(`/cavity-proposals/${enc(id)}`, { method: 'DELETE' })
+}
+
 export function getCavity(id: string, signal?: AbortSignal): Promise<{ cavity: Cavity; model: CavityModel }> {
   return apiRequest(`/cavities/${enc(id)}`, { signal })
 }

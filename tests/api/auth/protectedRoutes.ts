@@ -77,6 +77,12 @@ async function deletedTrace(server: TestServer, callerId: number): Promise<strin
   return traceId
 }
 
+/** A cavity proposed by the caller, waiting for approval. */
+async function proposal(server: TestServer, callerId: number): Promise<string> {
+  walkLensCounter += 1
+  return (await insertCavity(server.db, { name: `Walk proposal ${process.pid}-${walkLensCounter}`, description: '', location: '', ...testCavityGeometry, targetFundamentalFraction: null, archived: false }, { proposedBy: callerId })).id
+}
+
 /** What a case may use to build its request. */
 export interface WalkContext {
   server: TestServer
@@ -250,12 +256,12 @@ export const protectedRoutes: ProtectedRouteCase[] = [
   {
     method: 'post',
     route: '/api/cavities/:id/plans',
-    action: 'analyses.run',
+    action: 'plans.write',
     okStatus: 201,
     request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/plans`, body: { inputs: walkPlanInputs, lenses: [{ lensId: await walkLens(server), zMm: 120 }], note: 'walk' } }),
   },
   { method: 'get', route: '/api/plans/:id', action: 'lab.read', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
-  { method: 'delete', route: '/api/plans/:id', action: 'analyses.run', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
+  { method: 'delete', route: '/api/plans/:id', action: 'plans.write', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
   { method: 'get', route: '/api/analyses/:id/mismatch-family', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/analyses/${await walkDoneAnalysis(server)}/mismatch-family` }) },
   // Undoing a wrong upload (issue 13): each caller corrects a trace of their own (a lead or admin may correct anyone's).
   { method: 'delete', route: '/api/traces/:id', action: 'uploads.correct', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/traces/${(await ownTrace(server, caller.id)).traceId}`, body: { reason: 'walk' } }) },
@@ -270,5 +276,10 @@ export const protectedRoutes: ProtectedRouteCase[] = [
   { method: 'delete', route: '/api/analyses/:id/exclusion', action: 'uploads.correct', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/analyses/${(await ownTrace(server, caller.id)).analysisId}/exclusion` }) },
   { method: 'get', route: '/api/deleted-traces', action: 'uploads.restore', okStatus: 200, request: at('/api/deleted-traces') },
   { method: 'post', route: '/api/traces/:id/restore', action: 'uploads.restore', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/traces/${await deletedTrace(server, caller.id)}/restore` }) },
+  // Cavity proposals (issue 13): experimenters propose, leads and admins approve or turn down.
+  { method: 'get', route: '/api/cavity-proposals', action: 'lab.read', okStatus: 200, request: at('/api/cavity-proposals') },
+  { method: 'post', route: '/api/cavity-proposals', action: 'cavities.propose', okStatus: 201, request: async () => ({ path: '/api/cavity-proposals', body: { name: `Walk proposed ${uniqueEmail('p')}`, ...testCavityGeometry } }) },
+  { method: 'post', route: '/api/cavities/:id/approve', action: 'cavities.write', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/cavities/${await proposal(server, caller.id)}/approve` }) },
+  { method: 'delete', route: '/api/cavity-proposals/:id', action: 'cavities.write', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/cavity-proposals/${await proposal(server, caller.id)}` }) },
   { method: 'get', route: '/api/analyses/:id/fit-check', action: 'lab.read', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/analyses/${(await ownTrace(server, caller.id)).analysisId}/fit-check` }) },
 ]
