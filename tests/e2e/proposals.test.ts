@@ -2,28 +2,18 @@
  * Roles of issue 13 in a real browser: an experimenter proposes a cavity, a lead approves it; a technician who keeps
  * the lens kit saves a lens plan. Invented cavities and people; the demo lab's kit.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import { demoPassword, demoPeople } from '../../shared/auth/demoAccounts'
-import { launchBrowser, type TestBrowser } from '../support/browser'
+import { browserSuite } from '../support/browserSuite'
 import { signInThroughPage } from '../support/signInPage'
-import { startTestServer, type TestServer } from '../support/testServer'
 
 const person = (role: string) => demoPeople.find((p) => p.role === role)!.email
 
 describe('proposing a cavity, and plans saved by a technician, in a real browser', () => {
-  let server: TestServer
-  let browser: TestBrowser
-
-  beforeAll(async () => {
-    server = await startTestServer({}, { seedDemo: true })
-    browser = await launchBrowser()
-  })
-  afterAll(async () => {
-    await browser?.close()
-    await server?.close()
-  })
+  const suite = browserSuite({ seedDemo: true })
 
   it('when an experimenter proposes a cavity then it waits for approval, and a lead approves it into the list', async () => {
+    const [server, browser] = [suite.server(), suite.browser()]
     const { page } = browser
     await signInThroughPage(browser, server.url, person('experimenter'), demoPassword)
     await page.goto(`${server.url}/cavities`)
@@ -56,6 +46,7 @@ describe('proposing a cavity, and plans saved by a technician, in a real browser
   })
 
   it('when the technician plans lenses for a cavity then the plan can be saved', async () => {
+    const [server, browser] = [suite.server(), suite.browser()]
     const { page } = browser
     await signInThroughPage(browser, server.url, person('technician'), demoPassword)
     await page.goto(`${server.url}/planner`)
