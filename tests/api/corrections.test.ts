@@ -55,6 +55,14 @@ describe('undoing a wrong upload', () => {
 
   const historyOf = async (id: string) => (await as(lead).get(`/api/cavities/${id}/history`)).body.analyses as Array<{ analysisId: string; traceId: string; doubt: string | null; excluded: { reason: string } | null; fundamentalFractionError: number | null }>
   const alertState = async (id: string, kind: string) => ((await as(lead).get(`/api/cavities/${id}/alerts`)).body.states as Array<{ kind: string; breached: boolean }>).find((s) => s.kind === kind)
+  /** The alert check runs just after an analysis is marked done, so wait for its verdict rather than race it. */
+  async function breachedSoon(id: string, kind: string, expected: boolean) {
+    const deadline = Date.now() + 15_000
+    while ((await alertState(id, kind))?.breached !== expected) {
+      if (Date.now() > deadline) throw new Error(`${kind} of ${id} never became ${expected}`)
+      await new Promise((resolve) => setTimeout(resolve, 100))
+    }
+  }
   const auditEvents = async () => ((await as(admin).get('/api/audit?limit=200')).body.events as Array<{ event: string; details: Record<string, unknown> }>)
 
   beforeAll(async () => {
@@ -123,7 +131,7 @@ describe('undoing a wrong upload', () => {
 
   it('when a wrong upload fires the finesse alert then excluding it with a reason clears the alert, and including it again raises it', async () => {
     const dirty = await upload(experimenter, cavityId, { finesse: 150 })
-    expect((await alertState(cavityId, 'finesse_drop'))?.breached).toBe(true)
+    await breachedSoon(cavityId, 'finesse_drop', true)
 
     expect((await as(experimenter).put(`/api/analyses/${dirty.analysisId}/exclusion`).send({ reason: '' })).status).toBe(400)
     expect((await as(otherExperimenter).put(`/api/analyses/${dirty.analysisId}/exclusion`).send({ reason: 'not mine' })).status).toBe(403)
