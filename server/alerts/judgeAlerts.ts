@@ -15,8 +15,8 @@ export interface AlertInputs {
   medianFinesse: number | null
   /**
    * The result's warnings or shares undermine it (shared/api/resultTrust.ts: an ambiguous reading, a geometry that
-   * disagrees, many unassigned peaks, a share outside 0–100 %): its TEM00 fraction neither raises nor clears the
-   * target alert. @default false
+   * disagrees, many unassigned peaks, a share outside 0–100 %): it neither raises nor clears any rule, since a
+   * trace read against the wrong geometry or family gives a wrong finesse too. @default false
    */
   readingInDoubt?: boolean
 }
@@ -29,7 +29,7 @@ export function judgeAlerts(inputs: AlertInputs): Record<AlertKind, Verdict> {
     target === null ? 'off' : fundamentalFraction === null || readingInDoubt ? 'unknown' : { breached: fundamentalFraction < target, value: fundamentalFraction, threshold: target }
   let drop: Verdict = 'off'
   if (dropPercent !== null) {
-    if (finesse === null || medianFinesse === null) drop = 'unknown'
+    if (finesse === null || medianFinesse === null || readingInDoubt) drop = 'unknown'
     else {
       const threshold = medianFinesse * (1 - dropPercent / 100)
       drop = { breached: finesse < threshold, value: finesse, threshold }
