@@ -22,6 +22,8 @@ import { mailCaptureOn, type AppConfig } from './config'
 import type { Db } from './db/knex'
 import { healthRoutes } from './health/healthRoutes'
 import { cavityRoutes } from './cavities/cavityRoutes'
+import { correctionRoutes } from './corrections/correctionRoutes'
+import { proposalRoutes } from './cavities/proposalRoutes'
 import type { AnalysisQueue } from './jobs/analysisQueue'
 import type { EventHub } from './jobs/eventHub'
 import { traceRoutes } from './traces/traceRoutes'
@@ -100,7 +102,9 @@ export function createApp(context: AppContext): Express {
   api.use(tokensRoutes(db))
   api.use(auditRoutes(db))
   api.use(cavityRoutes(context))
+  api.use(proposalRoutes(context))
   api.use(traceRoutes(context))
+  api.use(correctionRoutes(context))
   // Before the analysis routes: /analyses/compare must not be read as /analyses/:id.
   api.use(overviewRoutes(context))
   api.use(analysisRoutes(context))

@@ -5,6 +5,7 @@ import type { Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import pino, { type Logger } from 'pino'
 import { startDigestSchedule, type DigestSchedule } from './alerts/digestSchedule'
+import { startPurgeSchedule } from './corrections/purgeSchedule'
 import { createApp } from './app'
 import { bootstrapAdmin } from './auth/bootstrapAdmin'
 import { sessionSecretSource } from './auth/sessionSecret'
@@ -52,6 +53,7 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
   const analysis = await startAnalysisService(config, { db, logger, threads: config.WORKER_THREADS })
   const app = createApp({ config, db, logger, mailer, queue: analysis.queue, events: analysis.events, sessionSecret, publicUrl: () => publicBaseUrl(config, listeningUrl) })
   const alertMail = startAlertMailDispatcher({ db, mailer, logger, baseUrl: () => publicBaseUrl(config, listeningUrl) })
+  const purge = startPurgeSchedule({ db, logger })
   const digest: DigestSchedule | null =
     config.DIGEST_SCHEDULE === 'off'
       ? null
@@ -64,6 +66,7 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
       reject(error.code === 'EADDRINUSE' ? new PortInUseError(config.HOST, config.PORT) : error)
     })
   }).catch(async (error: unknown) => {
+    purge.stop()
     await digest?.stop()
     await alertMail.stop()
     await analysis.stop()
@@ -100,6 +103,7 @@ export async function startServer(config: AppConfig, options: { logger?: Logger 
           // Long-lived connections (event streams) must not hold the shutdown forever.
           setTimeout(() => server.closeAllConnections(), 5000).unref()
         })
+        purge.stop()
         await digest?.stop()
         await alertMail.stop()
         await analysis.stop()

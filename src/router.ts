@@ -39,6 +39,7 @@ export const routes: RouteRecordRaw[] = [
   { path: '/admin', name: 'admin', component: () => import('./pages/admin/AdminPeoplePage.vue'), meta: { action: 'users.manage', title: 'People' } },
   { path: '/admin/tokens', name: 'admin-tokens', component: () => import('./pages/admin/AdminTokensPage.vue'), meta: { action: 'tokens.manageAll', title: 'API tokens' } },
   { path: '/admin/audit', name: 'admin-audit', component: () => import('./pages/admin/AdminAuditPage.vue'), meta: { action: 'audit.read', title: 'Audit log' } },
+  { path: '/admin/deleted', name: 'admin-deleted', component: () => import('./pages/admin/AdminDeletedTracesPage.vue'), meta: { action: 'uploads.restore', title: 'Deleted traces' } },
   { path: '/admin/outbox', name: 'admin-outbox', component: () => import('./pages/admin/AdminOutboxPage.vue'), meta: { action: 'outbox.read', title: 'Outbox' } },
   { path: '/account/tokens', name: 'my-tokens', component: () => import('./pages/auth/MyTokensPage.vue'), meta: { action: 'tokens.manageOwn', title: 'My API tokens' } },
   { path: '/sign-in', name: 'sign-in', component: () => import('./pages/auth/SignInPage.vue'), meta: { public: true, title: 'Sign in' } },

@@ -6,6 +6,7 @@
  */
 import type { Logger } from 'pino'
 import { alertKinds, type AlertKind } from '../../shared/api/alertSchemas'
+import { judgeResultTrust, trustInputOf } from '../../shared/api/resultTrust'
 import type { Db } from '../db/knex'
 import { insertNotifications, type NewNotification } from '../notifications/notificationRepository'
 import { describeRuleChange, type RuleChange } from './alertMessages'
@@ -20,7 +21,7 @@ export interface AlertOutcome {
   breaches: AlertKind[]
   recoveries: AlertKind[]
   /** Why nothing was judged, when nothing was. */
-  skipped?: 'not_done' | 'archived' | 'superseded'
+  skipped?: 'not_done' | 'archived' | 'superseded' | 'excluded'
 }
 
 interface AnalysisFacts {
@@ -34,7 +35,9 @@ interface AnalysisFacts {
   archived: boolean
   target_fundamental_fraction: number | null
   finesse_drop_percent: number | null
-  reading_in_doubt: boolean
+  excluded: boolean
+  warnings: Array<{ code: string }>
+  orders: Record<string, number>
 }
 
 /** Median finesse of the cavity's done analyses in the window before analysis `analysisId`; null with too few. */
@@ -42,7 +45,7 @@ async function recentMedianFinesse(db: Db, cavityId: string, analysisId: string)
   const result = await db.raw<{ rows: Array<{ median: number | null; count: string }> }>(
     `with this as (select created_at from analyses where id = ?)
      select percentile_cont(0.5) within group (order by finesse) as median, count(*) as count from analyses, this
-      where cavity_id = ? and status = 'done' and finesse is not null and id <> ?
+      where cavity_id = ? and status = 'done' and finesse is not null and id <> ? and deleted_at is null and excluded_at is null
         and analyses.created_at <= this.created_at and analyses.created_at > this.created_at - make_interval(days => ?)`,
     [analysisId, cavityId, analysisId, MEDIAN_WINDOW_DAYS],
   )
@@ -56,23 +59,29 @@ export async function checkAlertsAfterAnalysis(db: Db, analysisId: string): Prom
     .where('a.id', analysisId)
     .first(
       'a.id', 'a.cavity_id', 'a.status', 'a.created_at', 'a.fundamental_fraction', 'a.finesse', 'c.name', 'c.archived', 'c.target_fundamental_fraction', 'c.finesse_drop_percent',
-      db.raw(`coalesce(a.result -> 'warnings' @> '[{"code": "ambiguous_reading"}]'::jsonb, false) as reading_in_doubt`),
+      db.raw(`(a.excluded_at is not null or a.deleted_at is not null) as excluded`),
+      db.raw(`coalesce(a.result -> 'warnings', '[]'::jsonb) as warnings`),
+      db.raw(`coalesce(a.result -> 'orders', '{}'::jsonb) as orders`),
     )) as
     | AnalysisFacts
     | undefined
   if (!facts || facts.status !== 'done') return { breaches: [], recoveries: [], skipped: 'not_done' }
   if (facts.archived) return { breaches: [], recoveries: [], skipped: 'archived' }
+  // Excluded from history, trends and alerts by someone who knows it is wrong (or its trace was deleted).
+  if (facts.excluded) return { breaches: [], recoveries: [], skipped: 'excluded' }
   // Analyses can finish out of order; a newer reading already decided the state.
   // Compared in SQL: JavaScript dates hold milliseconds, PostgreSQL microseconds.
   const newer = await db('analyses')
     .where({ cavity_id: facts.cavity_id, status: 'done' })
+    .whereNull('deleted_at')
+    .whereNull('excluded_at')
     .andWhereRaw('created_at > (select created_at from analyses where id = ?)', [facts.id])
     .first('id')
   if (newer) return { breaches: [], recoveries: [], skipped: 'superseded' }
 
   const settings = { targetFundamentalFraction: facts.target_fundamental_fraction, finesseDropPercent: facts.finesse_drop_percent }
   const medianFinesse = settings.finesseDropPercent === null ? null : await recentMedianFinesse(db, facts.cavity_id, facts.id)
-  const verdicts = judgeAlerts({ fundamentalFraction: facts.fundamental_fraction, finesse: facts.finesse, settings, medianFinesse, readingInDoubt: facts.reading_in_doubt })
+  const verdicts = judgeAlerts({ fundamentalFraction: facts.fundamental_fraction, finesse: facts.finesse, settings, medianFinesse, readingInDoubt: readingInDoubt(facts) })
 
   return db.transaction(async (trx) => {
     const changes: RuleChange[] = []
@@ -102,6 +111,26 @@ export async function checkAlertsAfterAnalysis(db: Db, analysisId: string): Prom
     }
     return { breaches: changes.filter((change) => change.breached).map((change) => change.kind), recoveries: changes.filter((change) => !change.breached).map((change) => change.kind) }
   })
+}
+
+/** A result whose warnings or shares undermine it (shared/api/resultTrust.ts) neither raises nor clears the target. */
+function readingInDoubt(facts: AnalysisFacts): boolean {
+  if (facts.fundamental_fraction === null) return false
+  return judgeResultTrust(trustInputOf({ fundamentalFraction: facts.fundamental_fraction, warnings: facts.warnings, orders: facts.orders })).doubtful
+}
+
+/**
+ * After an analysis was excluded or its trace deleted or moved away: judge the cavity's newest remaining done
+ * analysis again, so a breach that a wrong upload raised is cleared (or one it cleared is raised again).
+ */
+export async function rejudgeNewest(db: Db, cavityId: string): Promise<AlertOutcome | null> {
+  const newest = (await db('analyses')
+    .where({ cavity_id: cavityId, status: 'done' })
+    .whereNull('deleted_at')
+    .whereNull('excluded_at')
+    .orderBy('created_at', 'desc')
+    .first('id')) as { id: string } | undefined
+  return newest ? checkAlertsAfterAnalysis(db, newest.id) : null
 }
 
 /** For the analysis job: never throws (an alert problem must not fail or retry the analysis), logs instead. */

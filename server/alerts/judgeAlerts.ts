@@ -14,8 +14,9 @@ export interface AlertInputs {
   /** Median finesse of the cavity's done analyses in the 30 days before this one; null with too few. */
   medianFinesse: number | null
   /**
-   * The engine says its reading of the spectrum may be wrong (`ambiguous_reading`): its TEM00 fraction neither
-   * raises nor clears the target alert. @default false
+   * The result's warnings or shares undermine it (shared/api/resultTrust.ts: an ambiguous reading, a geometry that
+   * disagrees, many unassigned peaks, a share outside 0–100 %): it neither raises nor clears any rule, since a
+   * trace read against the wrong geometry or family gives a wrong finesse too. @default false
    */
   readingInDoubt?: boolean
 }
@@ -28,7 +29,7 @@ export function judgeAlerts(inputs: AlertInputs): Record<AlertKind, Verdict> {
     target === null ? 'off' : fundamentalFraction === null || readingInDoubt ? 'unknown' : { breached: fundamentalFraction < target, value: fundamentalFraction, threshold: target }
   let drop: Verdict = 'off'
   if (dropPercent !== null) {
-    if (finesse === null || medianFinesse === null) drop = 'unknown'
+    if (finesse === null || medianFinesse === null || readingInDoubt) drop = 'unknown'
     else {
       const threshold = medianFinesse * (1 - dropPercent / 100)
       drop = { breached: finesse < threshold, value: finesse, threshold }

@@ -3,6 +3,7 @@ import type { AnalysisOptions, AnalysisStatus } from '../../shared/api/cavitySch
 import type { AnalysisRecord, HistoryRow } from '../../shared/api/tuningTypes'
 import type { CavityGeometry } from '../../shared/cavity'
 import type { AnalysisResult } from '../../shared/analysis/types'
+import { judgeResultTrust, trustInputOf } from '../../shared/api/resultTrust'
 import type { Db } from '../db/knex'
 
 export type { AnalysisRecord, HistoryRow }
@@ -26,6 +27,10 @@ interface AnalysisRow {
   created_at: Date
   started_at: Date | null
   finished_at: Date | null
+  deleted_at: Date | null
+  excluded_at: Date | null
+  excluded_by: number | null
+  exclusion_reason: string | null
 }
 
 function toAnalysis(row: AnalysisRow): AnalysisRecord {
@@ -44,6 +49,8 @@ function toAnalysis(row: AnalysisRow): AnalysisRecord {
     createdAt: row.created_at.toISOString(),
     startedAt: row.started_at?.toISOString() ?? null,
     finishedAt: row.finished_at?.toISOString() ?? null,
+    excluded: row.excluded_at ? { at: row.excluded_at.toISOString(), by: row.excluded_by, reason: row.exclusion_reason ?? '' } : null,
+    deleted: row.deleted_at !== null,
   }
 }
 
@@ -73,6 +80,7 @@ export async function findAnalysis(db: Db, id: string): Promise<AnalysisRecord |
 export async function markAnalysisRunning(db: Db, id: string, worker?: { host: string; pid: number }): Promise<AnalysisRecord | null> {
   const [row] = await db<AnalysisRow>('analyses')
     .where({ id })
+    .whereNull('deleted_at')
     .whereIn('status', ['queued', 'running'])
     .update({ status: 'running', started_at: db.fn.now() as unknown as Date, attempts: db.raw('attempts + 1') as unknown as number, worker_host: worker?.host ?? null, worker_pid: worker?.pid ?? null })
     .returning('*')
@@ -102,14 +110,24 @@ export async function finishAnalysis(
 }
 
 
-/** A cavity's analyses, newest first, with their trace's note. */
+/**
+ * A cavity's analyses, newest first, with their trace's note; deleted traces' analyses are left out, excluded ones
+ * kept (marked) so they can be included again. Each row says whether its number is in doubt and, when failed, why.
+ */
 export async function listCavityHistory(db: Db, cavityId: string, options: { from?: Date; to?: Date; limit?: number } = {}): Promise<HistoryRow[]> {
   const query = db('analyses as a')
     .join('traces as t', 't.id', 'a.trace_id')
     .where('a.cavity_id', cavityId)
+    .whereNull('a.deleted_at')
     .orderBy('a.created_at', 'desc')
     .limit(options.limit ?? 500)
-    .select('a.id', 'a.trace_id', 'a.created_at', 't.file_name', 't.note', 'a.status', 'a.fundamental_fraction', 'a.finesse', 'a.linewidth_hz')
+    .select(
+      'a.id', 'a.trace_id', 'a.created_at', 't.file_name', 't.note', 'a.status', 'a.fundamental_fraction', 'a.finesse', 'a.linewidth_hz', 'a.exclusion_reason', 'a.excluded_at',
+      db.raw(`a.result -> 'fundamentalFractionError' as fraction_error`),
+      db.raw(`coalesce(a.result -> 'warnings', '[]'::jsonb) as warnings`),
+      db.raw(`coalesce(a.result -> 'orders', '{}'::jsonb) as orders`),
+      db.raw(`a.error ->> 'message' as error_message`),
+    )
   if (options.from) query.where('a.created_at', '>=', options.from)
   if (options.to) query.where('a.created_at', '<=', options.to)
   const rows = (await query) as Array<{
@@ -122,6 +140,12 @@ export async function listCavityHistory(db: Db, cavityId: string, options: { fro
     fundamental_fraction: number | null
     finesse: number | null
     linewidth_hz: number | null
+    exclusion_reason: string | null
+    excluded_at: Date | null
+    fraction_error: number | null
+    warnings: Array<{ code: string }>
+    orders: Record<string, number>
+    error_message: string | null
   }>
   return rows.map((row) => ({
     analysisId: row.id,
@@ -131,7 +155,11 @@ export async function listCavityHistory(db: Db, cavityId: string, options: { fro
     note: row.note,
     status: row.status,
     fundamentalFraction: row.fundamental_fraction,
+    fundamentalFractionError: typeof row.fraction_error === 'number' ? row.fraction_error : null,
     finesse: row.finesse,
     linewidthHz: row.linewidth_hz,
+    doubt: row.status === 'done' && row.fundamental_fraction !== null ? judgeResultTrust(trustInputOf({ fundamentalFraction: row.fundamental_fraction, warnings: row.warnings, orders: row.orders })).summary : null,
+    excluded: row.excluded_at ? { reason: row.exclusion_reason ?? '' } : null,
+    error: row.error_message,
   }))
 }

@@ -6,6 +6,7 @@ import { findAnalysis, type AnalysisRecord } from './analysisRepository'
 export async function getAnalysis(db: Db, id: string): Promise<AnalysisRecord> {
   const analysis = await findAnalysis(db, id)
   if (!analysis) throw new HttpError(404, 'analysis_not_found', `No analysis with id ${id}.`)
+  if (analysis.deleted) throw new HttpError(404, 'analysis_deleted', `The trace of analysis ${id} was deleted; an admin can restore it within 30 days (Admin → Deleted traces).`)
   return analysis
 }
 

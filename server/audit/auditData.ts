@@ -20,6 +20,14 @@ export type AuditEvent =
   | 'token.created'
   | 'token.revoked'
   | 'token.revoked_all'
+  | 'trace.deleted'
+  | 'trace.restored'
+  | 'trace.moved'
+  | 'analysis.excluded'
+  | 'analysis.included'
+  | 'cavity.proposed'
+  | 'cavity.approved'
+  | 'cavity.rejected'
 
 export interface AuditRecordInput {
   event: AuditEvent

@@ -15,6 +15,9 @@ interface CavityRow {
   reflectivity2: number | null
   modulation_mhz: number | null
   target_fundamental_fraction: number | null
+  sample_interval_s: number | null
+  pending: boolean
+  proposed_by: number | null
   archived: boolean
   created_at: Date
   updated_at: Date
@@ -34,6 +37,9 @@ function toCavity(row: CavityRow): Cavity {
     ...(row.reflectivity2 === null ? {} : { reflectivity2: row.reflectivity2 }),
     ...(row.modulation_mhz === null ? {} : { modulationMHz: row.modulation_mhz }),
     targetFundamentalFraction: row.target_fundamental_fraction,
+    sampleIntervalSeconds: row.sample_interval_s,
+    pending: row.pending,
+    proposedBy: row.proposed_by,
     archived: row.archived,
     createdAt: row.created_at.toISOString(),
     updatedAt: row.updated_at.toISOString(),
@@ -61,8 +67,9 @@ function toRow(input: CavityPatch): Partial<CavityRow> {
   return row
 }
 
-export async function listCavities(db: Db, options: { includeArchived?: boolean } = {}): Promise<Cavity[]> {
-  const query = db<CavityRow>('cavities').orderBy('name')
+/** The lab's cavities by name; proposals waiting for approval only when asked for (`pending: true` lists only them). */
+export async function listCavities(db: Db, options: { includeArchived?: boolean; pending?: boolean } = {}): Promise<Cavity[]> {
+  const query = db<CavityRow>('cavities').orderBy('name').where({ pending: options.pending ?? false })
   if (!options.includeArchived) query.where({ archived: false })
   return (await query).map(toCavity)
 }
@@ -77,9 +84,27 @@ export async function findCavityByName(db: Db, name: string): Promise<Cavity | n
   return row ? toCavity(row) : null
 }
 
-export async function insertCavity(db: Db, input: CavityInput): Promise<Cavity> {
-  const [row] = await db<CavityRow>('cavities').insert(toRow(input)).returning('*')
+/** Insert a cavity; `proposedBy` makes it a proposal waiting for approval. */
+export async function insertCavity(db: Db, input: CavityInput, proposal: { proposedBy: number } | null = null): Promise<Cavity> {
+  const [row] = await db<CavityRow>('cavities')
+    .insert({ ...toRow(input), ...(proposal ? { pending: true, proposed_by: proposal.proposedBy } : {}) })
+    .returning('*')
   return toCavity(row as CavityRow)
+}
+
+/** Approve a proposal; false when it is not one. */
+export async function approveCavity(db: Db, id: string): Promise<boolean> {
+  return (await db('cavities').where({ id, pending: true }).update({ pending: false, updated_at: db.fn.now() })) > 0
+}
+
+/** Remove a proposal that is turned down (it holds no traces: uploads wait for approval). */
+export async function deleteProposal(db: Db, id: string): Promise<boolean> {
+  return (await db('cavities').where({ id, pending: true }).delete()) > 0
+}
+
+/** Remember the sample interval last given for a cavity's one-column exports. */
+export async function rememberSampleInterval(db: Db, id: string, seconds: number): Promise<void> {
+  await db('cavities').where({ id }).update({ sample_interval_s: seconds })
 }
 
 export async function updateCavity(db: Db, id: string, patch: CavityPatch): Promise<Cavity | null> {

@@ -23,10 +23,11 @@ function isUniqueViolation(error: unknown): boolean {
   return (error as { code?: string }).code === '23505'
 }
 
-export async function createCavity(db: Db, input: CavityInput): Promise<Cavity> {
+/** Create a cavity; with `proposedBy` it is a proposal that a lead or an admin approves. */
+export async function createCavity(db: Db, input: CavityInput, proposal: { proposedBy: number } | null = null): Promise<Cavity> {
   computeCavityModel(geometryOf(input)) // refuses an unstable geometry with a message naming it
   try {
-    return await insertCavity(db, input)
+    return await insertCavity(db, input, proposal)
   } catch (error) {
     if (isUniqueViolation(error)) throw new HttpError(409, 'name_taken', `A cavity named "${input.name}" already exists.`)
     throw error

@@ -16,8 +16,10 @@ export interface AnalysisTask {
   /** The export as stored: gzip-compressed bytes. */
   gzipped: Uint8Array
   geometry: CavityGeometry
-  options: AnalyzeOptions
+  options: AnalyzeOptions & { sampleIntervalSeconds?: number }
   maxBytes: number
+  /** The cavity's remembered sample interval (s), tried when the export has no time axis and none was given. */
+  fallbackIntervalSeconds?: number | null
 }
 
 export type AnalysisOutcome = { ok: true; result: AnalysisResult; milliseconds: number } | { ok: false; error: { code: string; message: string } }
@@ -25,6 +27,17 @@ export type AnalysisOutcome = { ok: true; result: AnalysisResult; milliseconds: 
 // A fresh thread spends about twice the CPU on its first analysis while the engine compiles its hot
 // loops; do that on a small generated trace before the first upload arrives.
 if ((workerData as { warmUp?: boolean } | undefined)?.warmUp) warmUpAnalysis()
+
+/** Read with the given interval; without one, fall back to the cavity's remembered one only when the file needs it. */
+function readExport(bytes: Uint8Array, task: AnalysisTask, sampleIntervalSeconds: number | undefined) {
+  try {
+    return readTrace(bytes, { maxBytes: task.maxBytes, sampleIntervalSeconds })
+  } catch (error) {
+    const fallback = task.fallbackIntervalSeconds
+    if (sampleIntervalSeconds !== undefined || !fallback || !isEngineError(error) || error.code !== 'no_sample_interval') throw error
+    return readTrace(bytes, { maxBytes: task.maxBytes, sampleIntervalSeconds: fallback })
+  }
+}
 
 export default function runAnalysisTask(task: AnalysisTask): AnalysisOutcome {
   const started = performance.now()
@@ -35,8 +48,9 @@ export default function runAnalysisTask(task: AnalysisTask): AnalysisOutcome {
     return { ok: false, error: { code: 'file_too_large', message: `The stored file is larger than the ${Math.round(task.maxBytes / 1048576)} MB limit once decompressed.` } }
   }
   try {
-    const trace = readTrace(bytes, { maxBytes: task.maxBytes })
-    const result = analyzeTrace(trace, task.geometry, task.options)
+    const { sampleIntervalSeconds, ...options } = task.options
+    const trace = readExport(bytes, task, sampleIntervalSeconds)
+    const result = analyzeTrace(trace, task.geometry, options)
     return { ok: true, result, milliseconds: performance.now() - started }
   } catch (error) {
     if (isEngineError(error)) return { ok: false, error: { code: error.code, message: error.message } }

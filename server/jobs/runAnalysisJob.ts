@@ -42,7 +42,8 @@ export async function runAnalysisJob(analysisId: string, context: JobContext): P
   gzipped.set(content)
   let outcome: Awaited<ReturnType<AnalysisPool['run']>>
   try {
-    outcome = await pool.run({ gzipped, geometry: analysis.geometry, options: analysis.options, maxBytes: context.maxTraceBytes })
+    const cavity = (await db('cavities').where({ id: analysis.cavityId }).first('sample_interval_s')) as { sample_interval_s: number | null } | undefined
+    outcome = await pool.run({ gzipped, geometry: analysis.geometry, options: analysis.options, maxBytes: context.maxTraceBytes, fallbackIntervalSeconds: cavity?.sample_interval_s ?? null })
   } catch (error) {
     if (analysis.attempts < context.maxAttempts) throw error // the queue retries it
     logger.error({ err: error, analysisId }, 'analysis crashed on its last attempt')

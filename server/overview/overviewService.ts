@@ -15,8 +15,10 @@ import { fractionSeriesPerCavity, latestDonePerCavity } from './overviewReposito
 export const OVERVIEW_WINDOW_DAYS = 30
 const DAY_MS = 86_400_000
 
-export function targetStatusOf(fraction: number | null | undefined, target: number | null): TargetStatus {
+/** A doubtful number (shared/api/resultTrust.ts) neither meets nor misses a target. */
+export function targetStatusOf(fraction: number | null | undefined, target: number | null, doubt: string | null = null): TargetStatus {
   if (target === null || fraction === null || fraction === undefined) return 'none'
+  if (doubt) return 'doubtful'
   return fraction >= target ? 'met' : 'below'
 }
 
@@ -40,6 +42,8 @@ export async function buildOverview(db: Db, userId: number | null, options: { no
     breachedKindsByCavity(db),
     userId === null ? Promise.resolve(new Set<string>()) : watchedCavityIds(db, userId),
   ])
+  // Archived cavities keep their slot too, so un-archiving one changes nobody's colour.
+  const slots = new Map(((await db('cavities').orderBy([{ column: 'created_at' }, { column: 'id' }]).select('id')) as Array<{ id: string }>).map((row, i) => [row.id, i]))
   const dropPercents = new Map(((await db('cavities').select('id', 'finesse_drop_percent')) as Array<{ id: string; finesse_drop_percent: number | null }>).map((row) => [row.id, row.finesse_drop_percent]))
 
   const rows: OverviewRow[] = cavities.map((cavity) => {
@@ -58,15 +62,18 @@ export async function buildOverview(db: Db, userId: number | null, options: { no
         fundamentalFraction: newest.fundamentalFraction,
         finesse: newest.finesse,
         linewidthHz: newest.linewidthHz,
+        fundamentalFractionError: newest.fundamentalFractionError,
+        doubt: newest.doubt,
       },
       fractionChange30d: fraction === null || baselineFraction === null ? null : fraction - baselineFraction,
       sparkline,
       targetFundamentalFraction: cavity.targetFundamentalFraction,
-      targetStatus: targetStatusOf(fraction, cavity.targetFundamentalFraction),
+      targetStatus: targetStatusOf(fraction, cavity.targetFundamentalFraction, newest?.doubt ?? null),
       finesseDropPercent: dropPercents.get(cavity.id) ?? null,
       activeAlerts: breaches.get(cavity.id) ?? [],
       lastMaintenance: lastEntries.get(cavity.id) ?? null,
       watchedByMe: watched.has(cavity.id),
+      colourSlot: slots.get(cavity.id) ?? 0,
     }
   })
   return { generatedAt: now.toISOString(), windowDays, cavities: rows }
@@ -99,8 +106,10 @@ export function overviewCsv(overview: Overview): string {
 export function historyCsv(rows: HistoryRow[]): string {
   return Papa.unparse(
     {
-      fields: ['created_at', 'analysis_id', 'trace_id', 'file_name', 'note', 'status', 'fundamental_fraction', 'finesse', 'linewidth_hz'],
-      data: rows.map((row) => [row.createdAt, row.analysisId, row.traceId, row.fileName, row.note, row.status, row.fundamentalFraction ?? '', row.finesse ?? '', row.linewidthHz ?? '']),
+      fields: ['created_at', 'analysis_id', 'trace_id', 'file_name', 'note', 'status', 'fundamental_fraction', 'fundamental_fraction_error', 'finesse', 'linewidth_hz', 'doubt', 'excluded_reason'],
+      data: rows.map((row) => [
+        row.createdAt, row.analysisId, row.traceId, row.fileName, row.note, row.status, row.fundamentalFraction ?? '', row.fundamentalFractionError ?? '', row.finesse ?? '', row.linewidthHz ?? '', row.doubt ?? '', row.excluded?.reason ?? '',
+      ]),
     },
     csvOptions,
   )

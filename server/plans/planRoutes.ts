@@ -64,7 +64,7 @@ export function planRoutes(context: AppContext): Router {
     res.json({ cavityId, plans: await listPlans(db, cavityId) })
   })
 
-  router.post('/cavities/:id/plans', requirePermission('analyses.run'), async (req, res) => {
+  router.post('/cavities/:id/plans', requirePermission('plans.write'), async (req, res) => {
     const plan = await savePlan(db, parseId(req.params.id, 'cavity'), planSaveSchema.parse(req.body ?? {}), requireActor(req))
     res.status(201).json({ plan })
   })
@@ -73,7 +73,7 @@ export function planRoutes(context: AppContext): Router {
     res.json({ plan: await getPlan(db, parseId(req.params.id, 'plan')) })
   })
 
-  router.delete('/plans/:id', requirePermission('analyses.run'), async (req, res) => {
+  router.delete('/plans/:id', requirePermission('plans.write'), async (req, res) => {
     await removePlan(db, parseId(req.params.id, 'plan'), requireActor(req))
     res.status(204).end()
   })

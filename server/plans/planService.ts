@@ -2,6 +2,7 @@
  * Mode-matching planner use cases: plan a cavity's input optics from the lab's kit (a pure computation), save,
  * list, read and delete plans, and read an analysis's order-2 share as the family of waist errors it allows.
  */
+import { can } from '../../shared/auth/permissions'
 import { cavityEigenmodeBeam, lensPositionTolerance, mismatchFamily, type Beam, type MatchingPath } from '../../shared/beam'
 import type { Lens, MismatchFamilyAnswer, ParsedPlanRequest, PlacedKitLens, PlanAnswer, SavedPlan } from '../../shared/api/plannerSchemas'
 import type { planSaveSchema } from '../../shared/api/plannerSchemas'
@@ -129,7 +130,7 @@ export async function getPlan(db: Db, id: string): Promise<SavedPlan> {
 export async function removePlan(db: Db, id: string, actor: Actor): Promise<void> {
   const plan = await findPlan(db, id)
   if (!plan) throw new HttpError(404, 'plan_not_found', `No plan with id ${id}.`)
-  if (plan.author?.id !== actor.id && actor.role !== 'lead' && actor.role !== 'admin') {
+  if (plan.author?.id !== actor.id && !can(actor.role, 'plans.manageAny')) {
     throw new HttpError(403, 'forbidden', 'Only the plan’s author, a lead or an admin may delete it.')
   }
   await deletePlan(db, id)

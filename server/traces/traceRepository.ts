@@ -37,8 +37,14 @@ export async function findTraceBySha(db: Db, cavityId: string, sha256: string): 
   return row ? toTrace(row) : null
 }
 
-export async function findTrace(db: Db, id: string): Promise<TraceRecord | null> {
-  const row = (await db('traces').where({ id }).first(columns)) as TraceRow | undefined
+/** A stored trace; a deleted one only with `includeDeleted` (an admin restoring it). */
+export async function findTrace(db: Db, id: string, options: { includeDeleted?: boolean } = {}): Promise<TraceRecord | null> {
+  const row = (await db('traces')
+    .where({ id })
+    .modify((query) => {
+      if (!options.includeDeleted) query.whereNull('deleted_at')
+    })
+    .first(columns)) as TraceRow | undefined
   return row ? toTrace(row) : null
 }
 
@@ -51,6 +57,8 @@ export async function insertTrace(
   trace: { cavityId: string; sha256: string; fileName: string; sizeBytes: number; note: string; uploadedBy: number | null } & ({ contentGzip: Buffer } | { gzipPath: string }),
 ): Promise<{ trace: TraceRecord; created: boolean }> {
   const created = await db.transaction(async (trx) => {
+    // The same file uploaded again after it was deleted is a fresh upload: the deleted copy goes for good.
+    await trx('traces').where({ cavity_id: trace.cavityId, sha256: trace.sha256 }).whereNotNull('deleted_at').delete()
     const rows = await trx<TraceRow>('traces')
       .insert({
         cavity_id: trace.cavityId,

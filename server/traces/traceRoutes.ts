@@ -17,8 +17,9 @@ export function traceRoutes(context: AppContext): Router {
   const router = Router()
   router.post('/cavities/:id/traces', requirePermission('traces.upload'), receiveTraceFiles(uploadLimits(config)), async (req, res) => {
     const cavityId = parseId(req.params.id, 'cavity')
-    const { note } = traceUploadFieldsSchema.parse(req.body ?? {})
-    const outcomes = await uploadTraces(context, cavityId, uploadedFiles(req), note, actorOf(req)?.id ?? null)
+    const { note, sampleIntervalSeconds } = traceUploadFieldsSchema.parse(req.body ?? {})
+    const options = sampleIntervalSeconds === undefined ? {} : { sampleIntervalSeconds }
+    const outcomes = await uploadTraces(context, cavityId, uploadedFiles(req), note, actorOf(req)?.id ?? null, options)
     res.status(202).json({ uploads: outcomes })
   })
 

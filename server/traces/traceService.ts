@@ -7,6 +7,7 @@ import type { AnalysisOptions } from '../../shared/api/cavitySchemas'
 import type { UploadOutcome } from '../../shared/api/tuningTypes'
 import { finishAnalysis, insertAnalysis, type AnalysisRecord } from '../analyses/analysisRepository'
 import { latestAnalysisOfTrace } from '../analyses/analysisService'
+import { rememberSampleInterval } from '../cavities/cavityRepository'
 import { geometryOf, getCavity } from '../cavities/cavityService'
 import type { Db } from '../db/knex'
 import type { AnalysisQueue } from '../jobs/analysisQueue'
@@ -34,6 +35,8 @@ export type { UploadOutcome }
 /** Create an analysis of a stored trace with the cavity's current geometry, and queue it. */
 export async function queueAnalysis(context: UploadContext, trace: TraceRecord, options: AnalysisOptions, userId: number | null): Promise<AnalysisRecord> {
   const cavity = await getCavity(context.db, trace.cavityId)
+  // Given once for a one-column export, it becomes the cavity's default for the next ones.
+  if (options.sampleIntervalSeconds !== undefined) await rememberSampleInterval(context.db, cavity.id, options.sampleIntervalSeconds)
   const analysis = await insertAnalysis(context.db, { traceId: trace.id, cavityId: cavity.id, options, geometry: geometryOf(cavity), requestedBy: userId })
   try {
     await context.queue.enqueue(analysis.id)
@@ -47,16 +50,17 @@ export async function queueAnalysis(context: UploadContext, trace: TraceRecord, 
   return analysis
 }
 
-export async function uploadTraces(context: UploadContext, cavityId: string, files: UploadedFile[], note: string, userId: number | null): Promise<UploadOutcome[]> {
+export async function uploadTraces(context: UploadContext, cavityId: string, files: UploadedFile[], note: string, userId: number | null, options: AnalysisOptions = {}): Promise<UploadOutcome[]> {
   if (files.length === 0) throw new HttpError(400, 'no_file', 'No file was uploaded: send the export in the multipart field "file".')
   const cavity = await getCavity(context.db, cavityId)
   if (cavity.archived) throw new HttpError(409, 'cavity_archived', `Cavity "${cavity.name}" is archived; un-archive it before uploading.`)
+  if (cavity.pending) throw new HttpError(409, 'cavity_not_approved', `Cavity "${cavity.name}" is proposed and waits for a lead or an admin to approve it; upload once it is approved.`)
   const outcomes: UploadOutcome[] = []
   for (const file of files) {
     // Stored from the temporary file in 1 MiB pieces: never whole in memory.
     const { trace, created } = await insertTrace(context.db, { cavityId, sha256: file.sha256, fileName: file.fileName, sizeBytes: file.sizeBytes, gzipPath: file.gzipPath, note, uploadedBy: userId })
     const existing = created ? null : await latestAnalysisOfTrace(context.db, trace.id)
-    const analysis = existing ?? (await queueAnalysis(context, trace, {}, userId))
+    const analysis = existing ?? (await queueAnalysis(context, trace, options, userId))
     outcomes.push({ trace, analysis, created })
   }
   return outcomes

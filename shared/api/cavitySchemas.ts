@@ -22,9 +22,21 @@ export type CavityPatch = z.infer<typeof cavityPatchSchema>
 /** A stored cavity as the API returns it. */
 export interface Cavity extends CavityInput {
   id: string
+  /** Sample interval last given for this cavity's one-column exports (s); used when an export states none. */
+  sampleIntervalSeconds: number | null
+  /** Proposed by an experimenter and not yet approved by a lead or an admin: out of the lists, no uploads. */
+  pending: boolean
+  /** Who proposed it (null when a lead or an admin created it). */
+  proposedBy: number | null
   createdAt: string
   updatedAt: string
 }
+
+/** A sample interval in seconds: above 0, at most 1 s (a scope sweep samples far faster). */
+export const sampleIntervalSchema = z
+  .number({ error: 'sampleIntervalSeconds must be a number of seconds, e.g. 1e-5' })
+  .gt(0, 'sampleIntervalSeconds must be above 0')
+  .max(1, 'sampleIntervalSeconds must be at most 1 s (give it in seconds, not microseconds)')
 
 /** Options for (re-)running an analysis; all optional. */
 export const analysisOptionsSchema = z
@@ -38,6 +50,11 @@ export const analysisOptionsSchema = z
     gouyOverrideRad: z.number().gt(0, 'gouyOverrideRad must be above 0').lt(Math.PI, 'gouyOverrideRad must be below π').optional(),
     peakModel: z.enum(['auto', 'lorentzian', 'airy']).optional(),
     modulationMHz: z.number().positive('modulationMHz must be positive').optional(),
+    /**
+     * Seconds between samples, for exports with no time column and no stated interval (one-column exports). A file
+     * with its own time axis keeps it. Remembered per cavity as the default for later uploads.
+     */
+    sampleIntervalSeconds: sampleIntervalSchema.optional(),
     /** Which way the optical frequency runs during the sweep, when the lab knows it (settles a mirrored reading). */
     sweepDirection: z.enum(['up', 'down'], { message: "sweepDirection must be 'up' or 'down'" }).optional(),
   })
@@ -50,6 +67,8 @@ export type AnalysisStatus = z.infer<typeof analysisStatusSchema>
 /** Upload form fields besides the file(s). */
 export const traceUploadFieldsSchema = z.object({
   note: z.string().trim().max(2000, 'note must be at most 2000 characters').default(''),
+  /** Multipart fields are text: an empty field means none. */
+  sampleIntervalSeconds: z.preprocess((value) => (value === '' || value === undefined ? undefined : Number(value)), sampleIntervalSchema.optional()),
 })
 
 /** Query of a cavity's history (`GET /api/cavities/:id/history` and its CSV). */

@@ -1,7 +1,8 @@
 /** Shapes of the overview and comparison answers (`GET /api/overview`, `GET /api/analyses/compare`). */
 import type { AlertKind } from './alertSchemas'
 
-export type TargetStatus = 'met' | 'below' | 'none'
+/** 'doubtful': the latest number is in doubt (shared/api/resultTrust.ts), so it neither meets nor misses the target. */
+export type TargetStatus = 'met' | 'below' | 'doubtful' | 'none'
 
 export interface SparkPoint {
   /** When the analysis was made (ISO 8601). */
@@ -14,7 +15,7 @@ export interface OverviewRow {
   name: string
   location: string
   wavelengthNm: number
-  latest: { analysisId: string; createdAt: string; fundamentalFraction: number | null; finesse: number | null; linewidthHz: number | null } | null
+  latest: { analysisId: string; createdAt: string; fundamentalFraction: number | null; finesse: number | null; linewidthHz: number | null; fundamentalFractionError: number | null; doubt: string | null } | null
   /** Latest fraction − the fraction 30 days ago (see the overview routes for the rule); null without two points. */
   fractionChange30d: number | null
   /** Done analyses of the last 30 days, oldest first. */
@@ -26,6 +27,8 @@ export interface OverviewRow {
   activeAlerts: AlertKind[]
   lastMaintenance: { entryId: string; occurredAt: string; kind: string; kindLabel: string } | null
   watchedByMe: boolean
+  /** The cavity's own place in the chart palette: its order of creation, so adding a cavity changes no colour. */
+  colourSlot: number
 }
 
 export interface Overview {
@@ -44,7 +47,12 @@ export interface ComparedAnalysis {
   note: string
   createdAt: string
   fundamentalFraction: number
+  /** Stated one-standard-errors (null when the result has none): a change within about two of them is noise. */
+  fundamentalFractionError: number | null
   finesse: number | null
+  finesseError: number | null
+  /** Standard error of each order's share, keyed like `orders` (from the line model; absent orders have none). */
+  shareErrors: Record<string, number>
   linewidthHz: number | null
   fsrHz: number
   fsrSeconds: number | null

@@ -35,6 +35,10 @@ export interface AnalysisRecord {
   createdAt: string
   startedAt: string | null
   finishedAt: string | null
+  /** Set when someone excluded this analysis from history, trends and alerts (with why). */
+  excluded: { at: string; by: number | null; reason: string } | null
+  /** True when its trace was deleted (only an admin restoring it sees such an analysis). */
+  deleted: boolean
 }
 
 /** One row of `GET /api/cavities/:id/history`, newest first. */
@@ -46,8 +50,16 @@ export interface HistoryRow {
   note: string
   status: AnalysisStatus
   fundamentalFraction: number | null
+  /** The stated one-standard-error of the TEM00 fraction (null for failed or older analyses). */
+  fundamentalFractionError: number | null
   finesse: number | null
   linewidthHz: number | null
+  /** One line saying why the number is in doubt (see shared/api/resultTrust.ts); null when it can be trusted. */
+  doubt: string | null
+  /** Set when the analysis is excluded from trends and alerts. */
+  excluded: { reason: string } | null
+  /** Why a failed analysis failed. */
+  error: string | null
 }
 
 /** One file's outcome in an upload answer (`POST /api/cavities/:id/traces` → 202 `{ uploads }`). */
@@ -65,4 +77,6 @@ export interface AnalysisEvent {
   analysisId: string
   traceId: string
   status: AnalysisStatus
+  /** Set when a person corrected an upload (the pages reload their lists). */
+  change?: 'deleted' | 'restored' | 'moved_away' | 'moved_in' | 'excluded' | 'included'
 }

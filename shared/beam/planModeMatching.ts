@@ -200,7 +200,8 @@ function checkTable(table: TableConstraints) {
     }
     const [from, to] = zone
     if (from < 0 || to > laserToCavityMm || to < from) {
-      throw new EngineError('zone_outside_path', `lensZonesMm[${i}] = [${from}, ${to}] must satisfy 0 ≤ from ≤ to ≤ laserToCavityMm (${laserToCavityMm} mm)`)
+      const where = to < from ? `ends (${to} mm) before it starts (${from} mm)` : `(${from}–${to} mm) reaches outside the path`
+      throw new EngineError('zone_outside_path', `Lens zone ${i + 1} ${where}: a zone must lie between the laser (0 mm) and the cavity (${laserToCavityMm} mm).`)
     }
     // Keep the minimum spacing from both ends of the path.
     const lo = Math.max(from, minSpacingMm)

@@ -25,6 +25,23 @@ export function createCavity(input: CavityInput): Promise<{ cavity: Cavity }> {
   return apiRequest('/cavities', { method: 'POST', body: input })
 }
 
+/** Cavities proposed by experimenters, waiting for a lead or an admin. */
+export function listProposals(signal?: AbortSignal): Promise<{ cavities: Cavity[] }> {
+  return apiRequest('/cavity-proposals', { signal })
+}
+
+export function proposeCavity(input: CavityInput): Promise<{ cavity: Cavity }> {
+  return apiRequest('/cavity-proposals', { method: 'POST', body: input })
+}
+
+export function approveCavity(id: string): Promise<{ cavity: Cavity }> {
+  return apiRequest(`/cavities/${enc(id)}/approve`, { method: 'POST' })
+}
+
+export function rejectProposal(id: string): Promise<null> {
+  return apiRequest(`/cavity-proposals/${enc(id)}`, { method: 'DELETE' })
+}
+
 export function getCavity(id: string, signal?: AbortSignal): Promise<{ cavity: Cavity; model: CavityModel }> {
   return apiRequest(`/cavities/${enc(id)}`, { signal })
 }
@@ -83,16 +100,19 @@ export interface UploadProgress {
 export interface UploadRequest {
   files: File[]
   note?: string
+  /** Seconds between samples, for exports without a time column. */
+  sampleIntervalSeconds?: number
   onProgress?: (progress: UploadProgress) => void
   signal?: AbortSignal
 }
 
 /** `POST /api/cavities/:id/traces` as multipart, reporting upload progress. */
 export function uploadTraces(cavityId: string, request: UploadRequest): Promise<{ uploads: UploadOutcome[] }> {
-  const { files, note = '', onProgress, signal } = request
+  const { files, note = '', sampleIntervalSeconds, onProgress, signal } = request
   const form = new FormData()
   for (const file of files) form.append('file', file, file.name)
   if (note.trim()) form.append('note', note.trim())
+  if (sampleIntervalSeconds !== undefined) form.append('sampleIntervalSeconds', String(sampleIntervalSeconds))
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest()
     xhr.open('POST', `/api/cavities/${enc(cavityId)}/traces`)

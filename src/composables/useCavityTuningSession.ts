@@ -1,7 +1,7 @@
 /**
  * The tuning session of one cavity: its recent analyses (history + live events), the newest finished
  * result in full, the change from the previous trace, and the trend of this session in upload order.
- * "Session" = analyses since the page was opened plus the last few before it.
+ * "Session" = the newest run of uploads with no pause over 30 minutes.
  */
 import { computed, onScopeDispose, type MaybeRefOrGetter } from 'vue'
 import { getAnalysis } from '../api/cavities'
@@ -11,23 +11,27 @@ import { useCavityHistory } from './useCavityHistory'
 import { useCavitraceLoader } from './useCavitraceLoader'
 
 export interface TuningSessionOptions {
-  /** Analyses from before the page was opened that start the trend. @default 5 */
-  earlierCount?: number
+  /** A pause longer than this between uploads starts a new session. @default 30 */
+  gapMinutes?: number
 }
 
 export function useCavityTuningSession(cavityId: MaybeRefOrGetter<string | null | undefined>, options: TuningSessionOptions = {}) {
-  const { earlierCount = 5 } = options
-  const openedAt = new Date()
+  const { gapMinutes = 30 } = options
   const history = useCavityHistory(cavityId, { limit: 100 })
 
   /** The session's analyses, oldest first, whatever their status. */
-  const entries = computed(() => sessionEntries(history.data.value ?? [], openedAt, { earlierCount }))
+  const entries = computed(() => sessionEntries(history.data.value ?? [], { gapMinutes }))
   const finished = computed(() => finishedEntries(entries.value))
   /** The newest analysis of the session (it may still be queued or running). */
   const newest = computed(() => entries.value[entries.value.length - 1] ?? null)
   const latestDone = computed(() => finished.value[finished.value.length - 1] ?? null)
   const previousDone = computed(() => finished.value[finished.value.length - 2] ?? null)
-  const change = computed(() => fractionChange(latestDone.value?.fundamentalFraction ?? null, previousDone.value?.fundamentalFraction ?? null))
+  const change = computed(() =>
+    fractionChange(latestDone.value?.fundamentalFraction ?? null, previousDone.value?.fundamentalFraction ?? null, {
+      latest: latestDone.value?.fundamentalFractionError,
+      previous: previousDone.value?.fundamentalFractionError,
+    }),
+  )
   /** The newest finished analysis in full: shares, reading, warnings. */
   const latest = useCavitraceLoader(() => latestDone.value?.analysisId, (key, signal) => getAnalysis(key, signal))
 

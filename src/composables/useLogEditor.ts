@@ -3,6 +3,7 @@
  * may write, change or delete which entry (the server's rule: the author, or anyone who manages the lab),
  * and the state of the entry dialog.
  */
+import { formatDate } from '../components/time/formatTime'
 import { shallowRef } from 'vue'
 import type { LogEntry } from '../api/logbook'
 import type { LogEntrySubmission } from '../components/logbook/LogEntryDialog.vue'
@@ -48,7 +49,7 @@ export function useLogEditor(entries: ReturnType<typeof useLogEntries>) {
   }
 
   async function remove(entry: LogEntry): Promise<string | null> {
-    if (!window.confirm(`Delete the ${entry.kindLabel.toLowerCase()} entry of ${new Date(entry.occurredAt).toLocaleDateString()}? Its traces stay stored.`)) return null
+    if (!window.confirm(`Delete the ${entry.kindLabel.toLowerCase()} entry of ${formatDate(entry.occurredAt)}? Its traces stay stored.`)) return null
     const outcome = await entries.remove(entry.id)
     return 'error' in outcome ? outcome.error.message : null
   }

@@ -17,7 +17,7 @@ export function useUploadTraces(cavityId: MaybeRefOrGetter<string | null | undef
   const percent = computed(() => (totalBytes.value > 0 ? Math.min(100, (100 * loadedBytes.value) / totalBytes.value) : null))
   let controller: AbortController | undefined
 
-  async function upload(files: File[], note = ''): Promise<UploadOutcome[] | null> {
+  async function upload(files: File[], note = '', sampleIntervalSeconds?: number): Promise<UploadOutcome[] | null> {
     const id = toValue(cavityId)
     if (!id || files.length === 0) return null
     controller?.abort()
@@ -30,6 +30,7 @@ export function useUploadTraces(cavityId: MaybeRefOrGetter<string | null | undef
       const answer = await uploadTraces(id, {
         files,
         note,
+        sampleIntervalSeconds,
         signal: controller.signal,
         onProgress: (progress) => {
           loadedBytes.value = progress.loadedBytes

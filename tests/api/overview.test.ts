@@ -92,7 +92,7 @@ describe('history, overview and comparison', () => {
     expect(response.headers['content-disposition']).toContain('Overview_main_cavity-history.csv')
     const parsed = Papa.parse<Record<string, string>>(response.text, { header: true, skipEmptyLines: true })
     expect(parsed.errors).toEqual([])
-    expect(parsed.meta.fields).toEqual(['created_at', 'analysis_id', 'trace_id', 'file_name', 'note', 'status', 'fundamental_fraction', 'finesse', 'linewidth_hz'])
+    expect(parsed.meta.fields).toEqual(['created_at', 'analysis_id', 'trace_id', 'file_name', 'note', 'status', 'fundamental_fraction', 'fundamental_fraction_error', 'finesse', 'linewidth_hz', 'doubt', 'excluded_reason'])
     expect(parsed.data.map((row) => row.analysis_id)).toEqual([scans[2].analysisId, scans[1].analysisId])
     expect(Number(parsed.data[0].fundamental_fraction)).toBe(scans[2].fraction)
     expect(parsed.data[0].created_at).toBe(scans[2].at.toISOString())
@@ -182,5 +182,15 @@ describe('history, overview and comparison', () => {
     expect(missing.status).toBe(400)
     expect(missing.body.error.message).toContain('b')
     expect((await request(server.url).get(`/api/analyses/compare?a=${scans[0].analysisId}&b=${scans[1].analysisId}`)).status).toBe(401)
+  })
+
+  it('when a cavity whose name sorts first is added then every other cavity keeps its chart colour slot', async () => {
+    const slots = async () => new Map(((await get(viewer, '/api/overview')).body.cavities as Array<{ cavityId: string; colourSlot: number }>).map((row) => [row.cavityId, row.colourSlot]))
+    const before = await slots()
+    const added = await request(server.url).post('/api/cavities').set('Authorization', lead.authorization).send({ name: 'AAA first by name', ...testCavityGeometry })
+    expect(added.status).toBe(201)
+    const after = await slots()
+    for (const [id, slot] of before) expect(after.get(id)).toBe(slot)
+    expect(after.get(added.body.cavity.id)).toBe(Math.max(...before.values(), 0) + 2) // the archived cavity keeps its slot too
   })
 })

@@ -119,7 +119,7 @@ describe('the mode-matching planner', () => {
     const cases: [object, number, string, RegExp][] = [
       [{ table: { ...table, laserToCavityMm: -100 } }, 400, 'invalid_input', /laserToCavityMm must be a positive distance/],
       [{ table: { ...table, lensZonesMm: [[-20, 100]] } }, 400, 'invalid_input', /must not be negative/],
-      [{ table: { ...table, lensZonesMm: [[50, 900]] } }, 422, 'zone_outside_path', /≤ laserToCavityMm \(600 mm\)/],
+      [{ table: { ...table, lensZonesMm: [[50, 900]] } }, 422, 'zone_outside_path', /^Lens zone 1 \(50–900 mm\) reaches outside the path: a zone must lie between the laser \(0 mm\) and the cavity \(600 mm\)\.$/],
       [{ table: { ...table, lensZonesMm: [] } }, 400, 'invalid_input', /at least one/],
       [{ beam: { kind: 'waist', x: { waistRadiusMm: 20, waistPositionMm: 0 } } }, 422, 'beam_too_large', /larger than the table's optics allow/],
       [{ beam: { kind: 'waist', wavelengthNm: 780, x: { waistRadiusMm: 0.4, waistPositionMm: 0 } } }, 422, 'wavelength_mismatch', /780 nm/],

@@ -69,7 +69,7 @@ describe('the overview as the demo lead', () => {
     const header = page.getByTestId('overview-table').getByRole('columnheader', { name: 'TEM00 now' })
     await header.click()
     await header.click()
-    const fractions = (await page.locator('[data-testid="overview-table"] .fraction').allInnerTexts()).map((text) => Number(text.replace(/[^\d.]/g, '')))
+    const fractions = (await page.locator('[data-testid="overview-table"] .fraction .value').allInnerTexts()).map((text) => Number(text.replace(/[^\d.]/g, '')))
     expect(fractions).toEqual([...fractions].sort((a, b) => b - a))
   })
 

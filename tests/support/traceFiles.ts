@@ -10,9 +10,9 @@ import type { SweptTraceOptions } from '../../shared/sim/types'
 /** The cavity the generated traces belong to (plano-concave, 1064 nm). */
 export const testCavityGeometry: CavityGeometry = { wavelengthNm: 1064, lengthMm: 100, roc1Mm: null, roc2Mm: 500 }
 
-/** A small, well-behaved swept trace as CSV text (time, ramp, transmission). */
-export function generatedTraceCsv(overrides: Partial<SweptTraceOptions> = {}): string {
-  const trace = generateSweptTrace({
+/** A small, well-behaved swept trace of the test cavity (invented data). */
+function smallSweptTrace(overrides: Partial<SweptTraceOptions>) {
+  return generateSweptTrace({
     cavity: testCavityGeometry,
     gouyOneWayRad: 0,
     finesse: 400,
@@ -24,7 +24,16 @@ export function generatedTraceCsv(overrides: Partial<SweptTraceOptions> = {}): s
     seed: 7,
     ...overrides,
   })
-  return formatSweptTraceCsv(trace, { layout: 'plain-columns', significantDigits: 7 })
+}
+
+/** A small, well-behaved swept trace as CSV text (time, ramp, transmission). */
+export function generatedTraceCsv(overrides: Partial<SweptTraceOptions> = {}): string {
+  return formatSweptTraceCsv(smallSweptTrace(overrides), { layout: 'plain-columns', significantDigits: 7 })
+}
+
+/** The same kind of trace as a one-column export: transmission values only, no time column, no interval stated. */
+export function oneColumnTraceCsv(overrides: Partial<SweptTraceOptions> = {}): string {
+  return formatSweptTraceCsv(smallSweptTrace({ includeRamp: false, ...overrides }), { layout: 'single-column', significantDigits: 7 })
 }
 
 /** Write text to a file in a fresh temporary folder; returns its path. */

@@ -30,6 +30,17 @@ export function formatPercent(fraction: number | null | undefined, decimals = 1)
   return `${(fraction * 100).toFixed(decimals)}${NBSP}%`
 }
 
+/**
+ * A standard error of a share in percentage points, never rounded to a bare "0.0": two significant digits below one
+ * point ("0.012"), one decimal above ("1.4").
+ */
+export function formatShareError(fraction: number | null | undefined): string {
+  if (fraction === null || fraction === undefined || !Number.isFinite(fraction)) return '—'
+  const points = Math.abs(fraction) * 100
+  if (points === 0) return '0'
+  return points >= 1 ? points.toFixed(1) : String(Number(points.toPrecision(2)))
+}
+
 /** A time in seconds with an SI prefix: "12.5 µs". */
 export function formatSeconds(seconds: number | null | undefined, digits = 4): string {
   if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return '—'

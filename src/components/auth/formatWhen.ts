@@ -1,6 +1,6 @@
-/** Dates in account tables: local date and time to the minute, or a dash for never. */
+import { formatDateTime } from '../time/formatTime'
+
+/** Dates in account tables: ISO date and 24-hour time to the minute, or a dash for never. */
 export function formatWhen(iso: string | null | undefined): string {
-  if (!iso) return '—'
-  const date = new Date(iso)
-  return `${date.toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' })} ${date.toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' })}`
+  return formatDateTime(iso)
 }

@@ -17,10 +17,10 @@ export interface TrendSeries {
 /** Display scale of each metric: TEM00 in percent, linewidth in MHz, finesse as is. */
 export const metricScale: Record<TrendMetric, number> = { fundamentalFraction: 100, finesse: 1, linewidthHz: 1e-6 }
 
-/** Done analyses with a value for `metric`, oldest first, scaled for display. */
+/** Done analyses with a value for `metric`, oldest first, scaled for display; excluded ones are left out. */
 export function trendSeries(rows: readonly HistoryRow[], metric: TrendMetric): TrendSeries {
   const kept = rows
-    .filter((row) => row.status === 'done' && row[metric] !== null && Number.isFinite(row[metric]))
+    .filter((row) => row.status === 'done' && !row.excluded && row[metric] !== null && Number.isFinite(row[metric]))
     .map((row) => ({ t: Date.parse(row.createdAt) / 1000, v: (row[metric] as number) * metricScale[metric], id: row.analysisId }))
     .sort((a, b) => a.t - b.t)
   return { x: kept.map((p) => p.t), y: kept.map((p) => p.v), analysisIds: kept.map((p) => p.id) }

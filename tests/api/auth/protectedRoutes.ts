@@ -4,7 +4,11 @@
  */
 import type { Action, Role } from '../../../shared/auth/permissions'
 import type { AnalysisResult } from '../../../shared/analysis/types'
+import { gzipSync } from 'node:zlib'
 import { finishAnalysis, insertAnalysis } from '../../../server/analyses/analysisRepository'
+import { insertCavity } from '../../../server/cavities/cavityRepository'
+import { softDeleteTrace } from '../../../server/corrections/correctionRepository'
+import { insertTrace } from '../../../server/traces/traceRepository'
 import { insertLens } from '../../../server/lenses/lensRepository'
 import { insertEntry } from '../../../server/logbook/logbookRepository'
 import { savePlan } from '../../../server/plans/planService'
@@ -43,6 +47,40 @@ async function walkDoneAnalysis(server: TestServer): Promise<string> {
   const result = { fundamentalFraction: 0.9, finesse: 400, linewidthHz: 4e6, orders: { '0': 0.9, '1': 0.05, '2': 0.05 } } as unknown as AnalysisResult
   await finishAnalysis(server.db, analysis.id, { result, engineMs: 1 })
   return analysis.id
+}
+
+/** A trace of the fixture cavity uploaded by the caller, with a finished analysis (for the undo routes). */
+async function ownTrace(server: TestServer, callerId: number): Promise<{ traceId: string; analysisId: string }> {
+  const fixture = await tuningFixture(server)
+  const { trace } = await insertTrace(server.db, { cavityId: fixture.cavityId, sha256: `own-${callerId}-${Math.random()}`, fileName: 'own.csv', sizeBytes: fixture.csv.length, contentGzip: gzipSync(fixture.csv), note: '', uploadedBy: callerId })
+  const analysis = await insertAnalysis(server.db, { traceId: trace.id, cavityId: fixture.cavityId, options: {}, geometry: testCavityGeometry, requestedBy: callerId })
+  const result = { fundamentalFraction: 0.9, fundamentalFractionError: 0.01, finesse: 400, linewidthHz: 4e6, orders: { '0': 0.9, '1': 0.1 }, warnings: [], peaks: [], fsr: { hz: 1.5e9, seconds: 0.01 }, sweep: { startTime: 0, endTime: 0.05 }, gouy: { predictedOneWayRad: 0.4636, measuredOneWayRad: 0.4636 } } as unknown as AnalysisResult
+  await finishAnalysis(server.db, analysis.id, { result, engineMs: 1 })
+  return { traceId: trace.id, analysisId: analysis.id }
+}
+
+/** A second cavity to move traces to. */
+const moveTargets = new WeakMap<TestServer, Promise<string>>()
+function moveTarget(server: TestServer): Promise<string> {
+  let made = moveTargets.get(server)
+  if (!made) {
+    made = insertCavity(server.db, { name: `Walk move target ${Date.now()}`, description: '', location: '', ...testCavityGeometry, lengthMm: 120, targetFundamentalFraction: null, archived: false }).then((cavity) => cavity.id)
+    moveTargets.set(server, made)
+  }
+  return made
+}
+
+/** A trace deleted by someone, for the admin's restore. */
+async function deletedTrace(server: TestServer, callerId: number): Promise<string> {
+  const { traceId } = await ownTrace(server, callerId)
+  await softDeleteTrace(server.db, traceId, { by: callerId, reason: 'walk' })
+  return traceId
+}
+
+/** A cavity proposed by the caller, waiting for approval. */
+async function proposal(server: TestServer, callerId: number): Promise<string> {
+  walkLensCounter += 1
+  return (await insertCavity(server.db, { name: `Walk proposal ${process.pid}-${walkLensCounter}`, description: '', location: '', ...testCavityGeometry, targetFundamentalFraction: null, archived: false }, { proposedBy: callerId })).id
 }
 
 /** What a case may use to build its request. */
@@ -230,11 +268,30 @@ export const protectedRoutes: ProtectedRouteCase[] = [
   {
     method: 'post',
     route: '/api/cavities/:id/plans',
-    action: 'analyses.run',
+    action: 'plans.write',
     okStatus: 201,
     request: async ({ server }) => ({ path: `/api/cavities/${(await tuningFixture(server)).cavityId}/plans`, body: { inputs: walkPlanInputs, lenses: [{ lensId: await walkLens(server), zMm: 120 }], note: 'walk' } }),
   },
   { method: 'get', route: '/api/plans/:id', action: 'lab.read', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
-  { method: 'delete', route: '/api/plans/:id', action: 'analyses.run', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
+  { method: 'delete', route: '/api/plans/:id', action: 'plans.write', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/plans/${await walkPlan(server, caller)}` }) },
   { method: 'get', route: '/api/analyses/:id/mismatch-family', action: 'lab.read', okStatus: 200, request: async ({ server }) => ({ path: `/api/analyses/${await walkDoneAnalysis(server)}/mismatch-family` }) },
+  // Undoing a wrong upload (issue 13): each caller corrects a trace of their own (a lead or admin may correct anyone's).
+  { method: 'delete', route: '/api/traces/:id', action: 'uploads.correct', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/traces/${(await ownTrace(server, caller.id)).traceId}`, body: { reason: 'walk' } }) },
+  {
+    method: 'post',
+    route: '/api/traces/:id/move',
+    action: 'uploads.correct',
+    okStatus: 202,
+    request: async ({ server, caller }) => ({ path: `/api/traces/${(await ownTrace(server, caller.id)).traceId}/move`, body: { cavityId: await moveTarget(server) } }),
+  },
+  { method: 'put', route: '/api/analyses/:id/exclusion', action: 'uploads.correct', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/analyses/${(await ownTrace(server, caller.id)).analysisId}/exclusion`, body: { reason: 'walked out' } }) },
+  { method: 'delete', route: '/api/analyses/:id/exclusion', action: 'uploads.correct', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/analyses/${(await ownTrace(server, caller.id)).analysisId}/exclusion` }) },
+  { method: 'get', route: '/api/deleted-traces', action: 'uploads.restore', okStatus: 200, request: at('/api/deleted-traces') },
+  { method: 'post', route: '/api/traces/:id/restore', action: 'uploads.restore', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/traces/${await deletedTrace(server, caller.id)}/restore` }) },
+  // Cavity proposals (issue 13): experimenters propose, leads and admins approve or turn down.
+  { method: 'get', route: '/api/cavity-proposals', action: 'lab.read', okStatus: 200, request: at('/api/cavity-proposals') },
+  { method: 'post', route: '/api/cavity-proposals', action: 'cavities.propose', okStatus: 201, request: async () => ({ path: '/api/cavity-proposals', body: { name: `Walk proposed ${uniqueEmail('p')}`, ...testCavityGeometry } }) },
+  { method: 'post', route: '/api/cavities/:id/approve', action: 'cavities.write', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/cavities/${await proposal(server, caller.id)}/approve` }) },
+  { method: 'delete', route: '/api/cavity-proposals/:id', action: 'cavities.write', okStatus: 204, request: async ({ server, caller }) => ({ path: `/api/cavity-proposals/${await proposal(server, caller.id)}` }) },
+  { method: 'get', route: '/api/analyses/:id/fit-check', action: 'lab.read', okStatus: 200, request: async ({ server, caller }) => ({ path: `/api/analyses/${(await ownTrace(server, caller.id)).analysisId}/fit-check` }) },
 ]

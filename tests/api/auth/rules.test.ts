@@ -17,6 +17,14 @@ describe('the permission table', () => {
     expect(rolesAllowed('logbook.write')).toEqual(['admin', 'lead', 'technician'])
     expect(rolesAllowed('traces.upload')).toEqual(['admin', 'lead', 'experimenter', 'technician'])
     expect(rolesAllowed('lab.read')).toEqual([...roles])
+    // Undoing a wrong upload (issue 13): whoever uploads may correct their own; leads and admins anyone's; admins restore.
+    expect(rolesAllowed('uploads.correct')).toEqual(rolesAllowed('traces.upload'))
+    expect(rolesAllowed('uploads.correctAny')).toEqual(['admin', 'lead'])
+    expect(rolesAllowed('uploads.restore')).toEqual(['admin'])
+    // Roles of issue 13: experimenters propose cavities (leads and admins approve), technicians save lens plans.
+    expect(rolesAllowed('cavities.propose')).toEqual(['admin', 'lead', 'experimenter'])
+    expect(rolesAllowed('plans.write')).toEqual(['admin', 'lead', 'experimenter', 'technician'])
+    expect(rolesAllowed('plans.manageAny')).toEqual(['admin', 'lead'])
     expect(permissionTable.viewer).toEqual(['lab.read', 'tokens.manageOwn'])
   })
 

@@ -10,8 +10,11 @@ import { markerAt, placeMarkers, trendSeries, type MarkerEntry } from '../../../
 
 const DAY_MS = 86_400_000
 
-function row(id: string, iso: string, fraction: number | null, status: HistoryRow['status'] = 'done'): HistoryRow {
-  return { analysisId: id, traceId: `t-${id}`, createdAt: iso, fileName: `${id}.csv`, note: '', status, fundamentalFraction: fraction, finesse: fraction === null ? null : 400 * fraction, linewidthHz: fraction === null ? null : 1.9e6 }
+function row(id: string, iso: string, fraction: number | null, status: HistoryRow['status'] = 'done', excluded: HistoryRow['excluded'] = null): HistoryRow {
+  return {
+    analysisId: id, traceId: `t-${id}`, createdAt: iso, fileName: `${id}.csv`, note: '', status, fundamentalFraction: fraction, fundamentalFractionError: fraction === null ? null : 0.002,
+    finesse: fraction === null ? null : 400 * fraction, linewidthHz: fraction === null ? null : 1.9e6, doubt: null, excluded, error: null,
+  }
 }
 
 function entry(id: string, iso: string, kindLabel: string): MarkerEntry {
@@ -57,6 +60,11 @@ describe('trendSeries', () => {
     expect(fraction.y[0]).toBeCloseTo(70, 10)
     expect(trendSeries(rows, 'linewidthHz').y[2]).toBeCloseTo(1.9, 10) // MHz
     expect(trendSeries(rows, 'finesse').y[1]).toBeCloseTo(320, 10)
+  })
+  it('when an analysis is excluded with a reason then it is no point of any trend', () => {
+    const rows = [row('b', '2026-11-02T00:00:00Z', 0.2, 'done', { reason: 'a 780 nm trace dropped here by mistake' }), row('a', '2026-11-01T00:00:00Z', 0.7)]
+    expect(trendSeries(rows, 'fundamentalFraction').analysisIds).toEqual(['a'])
+    expect(trendSeries(rows, 'finesse').analysisIds).toEqual(['a'])
   })
 })
 
