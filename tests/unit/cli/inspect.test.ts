@@ -1,19 +1,12 @@
-import { spawnSync } from 'node:child_process'
-import { dirname, join } from 'node:path'
-import { fileURLToPath } from 'node:url'
 import { describe, expect, it } from 'vitest'
+import { errorOf, runCli } from '../../support/runCli'
 
-const root = join(dirname(fileURLToPath(import.meta.url)), '../../..')
-
-function inspect(...args: string[]): { status: number | null; json: Record<string, unknown> } {
-  const run = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'scripts/inspect.ts'), ...args], {
-    cwd: root,
-    encoding: 'utf8',
-  })
+function inspect(...args: string[]) {
+  const run = runCli(['inspect', ...args])
   return { status: run.status, json: JSON.parse(run.stdout) as Record<string, unknown> }
 }
 
-describe('scripts/inspect.ts', () => {
+describe('cavitrace inspect', () => {
   it('when given a real export then it prints the summary as JSON', () => {
     const { status, json } = inspect('fixtures/real/planoconcave_633nm_L150mm_R300mm_ramp_2ch.csv')
     expect(status).toBe(0)
@@ -25,12 +18,16 @@ describe('scripts/inspect.ts', () => {
     expect(json).toHaveProperty('startTime')
   })
 
-  it('when the file is missing or a flag is wrong then it prints an error object and exits non-zero', () => {
-    const missing = inspect('fixtures/real/no-such-file.csv')
-    expect(missing.status).not.toBe(0)
-    expect((missing.json.error as { code: string }).code).toBe('file_not_found')
-    const badFlag = inspect('fixtures/real/planoconcave_633nm_L150mm_R300mm_ramp_2ch.csv', '--interval', 'soon')
-    expect(badFlag.status).not.toBe(0)
-    expect((badFlag.json.error as { code: string }).code).toBe('bad_argument')
+  it('when the file is missing then it prints an error object and exits 1', () => {
+    const missing = runCli(['inspect', 'fixtures/real/no-such-file.csv'])
+    expect(missing.status).toBe(1)
+    expect(errorOf(missing).code).toBe('file_not_found')
+  })
+
+  it('when a flag is wrong then it prints an error object and exits 2', () => {
+    const badFlag = runCli(['inspect', 'fixtures/real/planoconcave_633nm_L150mm_R300mm_ramp_2ch.csv', '--interval', 'soon'])
+    expect(badFlag.status).toBe(2)
+    expect(errorOf(badFlag).code).toBe('bad_argument')
+    expect(errorOf(badFlag).message).toContain('--interval')
   })
 })
