@@ -55,7 +55,7 @@ export async function analyzeCommand(args: string[]): Promise<number> {
     // One file: analysed on this thread, no worker to start.
     const outcome = analyzeFile(files[0], cavity, options)
     if (format === 'csv') write(headlineCsvRow(outcome))
-    else write(`${JSON.stringify('error' in outcome ? { error: outcome.error } : outcome.result, null, 2)}\n`)
+    else write('error' in outcome ? `${JSON.stringify({ error: outcome.error })}\n` : `${JSON.stringify(outcome.result, null, 2)}\n`)
     return 'error' in outcome ? 1 : 0
   }
   const refused = await runBatch(files, { cavity, options, format, threads, write })

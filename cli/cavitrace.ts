@@ -1,5 +1,5 @@
 /**
- * `cavitrace`: the command-line tool (package bin; built to dist/cli/cavitrace.js). One subcommand per job; errors
+ * `cavitrace`: the command-line tool (package bin; built to dist/cli/cavitrace.cjs). One subcommand per job; errors
  * are printed as `{"error": {"code", "message"}}` on stdout. Exit status: 0 ok, 1 analysis refused, 2 usage error.
  */
 import { isEngineError } from '../shared/errors'
@@ -54,4 +54,6 @@ export async function main(argv: string[]): Promise<number> {
   }
 }
 
-process.exitCode = await main(process.argv.slice(2))
+void main(process.argv.slice(2)).then((code) => {
+  process.exitCode = code
+})

@@ -21,7 +21,8 @@ export interface BatchOptions {
 /** Resolves with the number of refused files once every file is written. */
 export function runBatch(files: string[], batch: BatchOptions): Promise<number> {
   const fromSource = import.meta.url.endsWith('.ts')
-  const threadFile = new URL(fromSource ? './batchThread.ts' : './batchThread.js', import.meta.url)
+  // Built, the tool is CommonJS (scripts/build.mjs).
+  const threadFile = new URL(fromSource ? './batchThread.ts' : './batchThread.cjs', import.meta.url)
   const data: BatchThreadData = { cavity: batch.cavity, options: batch.options, format: batch.format }
   const texts: (string | undefined)[] = new Array(files.length)
   const progress = createProgressBar(files.length)

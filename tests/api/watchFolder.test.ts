@@ -57,7 +57,7 @@ describe('cavitrace watch', () => {
     cavityId = created.body.cavity.id
     folder = mkdtempSync(join(tmpdir(), 'cavitrace-watch-'))
     writeFileSync(join(folder, 'before-start.csv'), generatedTraceCsv({ seed: 40 }))
-    watcher = spawn(process.execPath, ['dist/cli/cavitrace.js', 'watch', folder, '--cavity', cavityId, '--url', server.url, '--settle', '1'], {
+    watcher = spawn(process.execPath, ['bin/cavitrace.mjs', 'watch', folder, '--cavity', cavityId, '--url', server.url, '--settle', '1'], {
       cwd: projectRoot,
       env: { ...process.env, CAVITRACE_TOKEN: experimenter.authorization.replace(/^Bearer /, '') },
     })

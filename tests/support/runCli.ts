@@ -1,9 +1,12 @@
-/** Run the built `cavitrace` command (dist/cli, built by the tests' global set-up) and collect what it printed. */
+/**
+ * Run the `cavitrace` command as installed (bin/cavitrace.mjs → dist/cli, built by the tests' global set-up) and
+ * collect what it printed.
+ */
 import { spawn, spawnSync } from 'node:child_process'
 import { fileURLToPath } from 'node:url'
 
 export const projectRoot = fileURLToPath(new URL('../..', import.meta.url))
-const cli = fileURLToPath(new URL('../../dist/cli/cavitrace.js', import.meta.url))
+const cli = fileURLToPath(new URL('../../bin/cavitrace.mjs', import.meta.url))
 
 export interface CliRun {
   status: number | null
