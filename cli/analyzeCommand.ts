@@ -26,17 +26,14 @@ Exit status: 0 all analysed, 1 a file refused, 2 usage error.
 `
 
 export async function analyzeCommand(args: string[]): Promise<number> {
-  const { values, positionals } = parseCommandLine('analyze', args, {
+  const parsed = parseCommandLine('analyze', args, {
     cavity: { type: 'string' },
     'sweep-direction': { type: 'string' },
     csv: { type: 'boolean' },
     threads: { type: 'string' },
-    help: { type: 'boolean', short: 'h' },
-  })
-  if (values.help) {
-    process.stdout.write(analyzeHelp)
-    return 0
-  }
+  }, analyzeHelp)
+  if (parsed === null) return 0
+  const { values, positionals } = parsed
   if (positionals.length === 0) throw new UsageError('bad_argument', 'cavitrace analyze: name at least one FILE or DIR. (cavitrace analyze --help)')
   if (values.cavity === undefined) throw new UsageError('bad_argument', 'cavitrace analyze: --cavity CAVITY.json is required. (cavitrace analyze --help)')
   const direction = values['sweep-direction']

@@ -25,18 +25,15 @@ function integerOption(flag: string, text: string): number {
 }
 
 export function generateCommand(args: string[]): number {
-  const { values, positionals } = parseCommandLine('generate', args, {
+  const parsed = parseCommandLine('generate', args, {
     preset: { type: 'string' },
     out: { type: 'string' },
     seed: { type: 'string' },
     samples: { type: 'string' },
     list: { type: 'boolean' },
-    help: { type: 'boolean', short: 'h' },
-  })
-  if (values.help) {
-    process.stdout.write(generateHelp)
-    return 0
-  }
+  }, generateHelp)
+  if (parsed === null) return 0
+  const { values, positionals } = parsed
   if (positionals.length > 0) throw new UsageError('bad_argument', `cavitrace generate takes no positional arguments (got ${JSON.stringify(positionals[0])}).`)
   if (values.list) {
     for (const [name, options] of Object.entries(simPresets)) {

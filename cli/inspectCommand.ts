@@ -13,11 +13,9 @@ in seconds, channels with unit and detected role, metadata and warnings.
 `
 
 export function inspectCommand(args: string[]): number {
-  const { values, positionals } = parseCommandLine('inspect', args, { interval: { type: 'string' }, help: { type: 'boolean', short: 'h' } })
-  if (values.help) {
-    process.stdout.write(inspectHelp)
-    return 0
-  }
+  const parsed = parseCommandLine('inspect', args, { interval: { type: 'string' } }, inspectHelp)
+  if (parsed === null) return 0
+  const { values, positionals } = parsed
   if (positionals.length !== 1) throw new UsageError('bad_argument', `cavitrace inspect takes exactly one FILE (got ${positionals.length}). (cavitrace inspect --help)`)
   const options: ReadTraceOptions = {}
   if (values.interval !== undefined) {

@@ -27,17 +27,14 @@ The API token is read from the environment variable CAVITRACE_TOKEN.
 `
 
 export async function watchCommand(args: string[]): Promise<number> {
-  const { values, positionals } = parseCommandLine('watch', args, {
+  const parsed = parseCommandLine('watch', args, {
     cavity: { type: 'string' },
     url: { type: 'string' },
     note: { type: 'string' },
     settle: { type: 'string' },
-    help: { type: 'boolean', short: 'h' },
-  })
-  if (values.help) {
-    process.stdout.write(watchHelp)
-    return 0
-  }
+  }, watchHelp)
+  if (parsed === null) return 0
+  const { values, positionals } = parsed
   if (positionals.length !== 1) throw new UsageError('bad_argument', 'cavitrace watch takes exactly one DIR. (cavitrace watch --help)')
   const folder = positionals[0]
   if (!statSync(folder, { throwIfNoEntry: false })?.isDirectory()) throw new UsageError('file_not_found', `cavitrace watch: ${JSON.stringify(folder)} is not a folder.`)
