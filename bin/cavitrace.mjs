@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // The `cavitrace` command (package bin). Runs the built tool, dist/cli/cavitrace.cjs, building it first when it is
-// missing (a fresh clone). Called through `npm run` (analyze, inspect, generate), it also rebuilds when a source is
-// newer: npm's own start costs far more than that check, which a direct call skips to start fast.
+// missing (a fresh clone). Called as `npm run analyze|inspect|generate`, it also rebuilds when a source is newer:
+// npm's own start costs far more than that check, which a direct call (or one from npx) skips to start fast.
 //
 // The tool is loaded through node:vm with V8's code cache (dist/cli/cavitrace.v8cache, written as a run ends when
 // there was none, V8 refused it, or CAVITRACE_CODE_CACHE=refresh; the build writes it after analysing a small
@@ -13,7 +13,8 @@ import { fileURLToPath } from 'node:url'
 import { Script } from 'node:vm'
 
 const file = fileURLToPath(new URL('../dist/cli/cavitrace.cjs', import.meta.url))
-if (!existsSync(file) || (process.env.npm_lifecycle_event && existsSync(new URL('../cli/cavitrace.ts', import.meta.url)))) {
+const viaNpmRun = ['analyze', 'inspect', 'generate'].includes(process.env.npm_lifecycle_event ?? '')
+if (!existsSync(file) || (viaNpmRun && existsSync(new URL('../cli/cavitrace.ts', import.meta.url)))) {
   const { buildCodeIfStale } = await import('../scripts/build.mjs')
   await buildCodeIfStale()
 }

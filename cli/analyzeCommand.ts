@@ -45,6 +45,7 @@ export async function analyzeCommand(args: string[]): Promise<number> {
   const options: AnalyzeOptions = direction ? { sweepDirection: direction } : {}
   const format = values.csv ? 'csv' : 'jsonl'
   const { files, fromFolder } = listTraceFiles(positionals)
+  if (files.length === 0) throw new UsageError('no_files', `cavitrace analyze: ${positionals.map((p) => JSON.stringify(p)).join(', ')} holds no exports (.csv, .txt, .tsv, .dat).`)
   const write = (text: string) => process.stdout.write(text)
   if (format === 'csv') write(headlineCsvHeader())
 

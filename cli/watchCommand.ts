@@ -50,15 +50,10 @@ export async function watchCommand(args: string[]): Promise<number> {
   const tracker = createFinishedFileTracker(folder, settleSeconds * 1000)
   const sent = new Map<string, string>() // content hash → the file it was first sent as
   const cavityId = values.cavity
-  let stopping = false
-  const stop = () => {
-    stopping = true
-  }
-  process.once('SIGINT', stop)
-  process.once('SIGTERM', stop)
+  // No signal handlers: Ctrl-C ends the watcher at once, even while it waits for the server.
   note(`watching ${folder} for new exports (cavity ${cavityId}, ${values.url})`)
 
-  while (!stopping) {
+  for (;;) {
     for (const file of tracker.poll()) {
       const name = basename(file)
       let bytes: Buffer
@@ -93,5 +88,4 @@ export async function watchCommand(args: string[]): Promise<number> {
     }
     await sleep(200)
   }
-  return 0
 }

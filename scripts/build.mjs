@@ -122,7 +122,7 @@ function warmCodeCache() {
   try {
     const cli = join(projectRoot, 'bin', 'cavitrace.mjs')
     const trace = join(folder, 'warm.csv')
-    const env = { ...process.env, npm_lifecycle_event: '' }
+    const env = { ...process.env, npm_lifecycle_event: 'build' }
     spawnSync(process.execPath, [cli, 'generate', '--preset', 'reference-1064', '--samples', '20000', '--out', trace], { env, stdio: 'ignore' })
     spawnSync(process.execPath, [cli, 'analyze', trace, '--cavity', join(folder, 'warm.cavity.json')], { env: { ...env, CAVITRACE_CODE_CACHE: 'refresh' }, stdio: 'ignore' })
   } finally {

@@ -1,4 +1,4 @@
-import { mkdtempSync, writeFileSync } from 'node:fs'
+import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
@@ -15,6 +15,7 @@ beforeAll(() => {
   cavity = join(folder, 'cavity.json')
   writeFileSync(trace, generatedTraceCsv())
   writeFileSync(cavity, JSON.stringify(testCavityGeometry))
+  mkdirSync(join(folder, 'empty'))
 })
 
 describe('cavitrace: help and exit status', () => {
@@ -39,6 +40,7 @@ describe('cavitrace: help and exit status', () => {
       [['analyze', trace, '--cavity', cavity, '--threads', '0'], 'bad_argument', '--threads'],
       [['analyze', trace, '--cavity', join(folder, 'none.json')], 'file_not_found', 'none.json'],
       [['analyze', trace, '--cavity', trace], 'invalid_json', 'not valid JSON'],
+      [['analyze', join(folder, 'empty'), '--cavity', cavity], 'no_files', 'holds no exports'],
       [['generate', '--preset', 'no-such-preset', '--out', join(folder, 'x.csv')], 'bad_argument', 'reference-1064'],
       [['watch', folder, '--cavity', '1', '--url', 'http://127.0.0.1:9'], 'no_token', 'CAVITRACE_TOKEN'],
     ]
