@@ -40,8 +40,13 @@ export const median = (values: number[]) => {
   return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2
 }
 
-/** A --import hook that prints the process's peak resident memory (bytes) on stderr as it exits. */
-export const peakRssHook = `data:text/javascript,process.on('exit',()=>process.stderr.write('PEAK_RSS '+process.resourceUsage().maxRSS*1024+'\\n'))`
+/**
+ * A --import hook that prints the process's peak resident memory (bytes) on stderr as it exits. It reads VmHWM
+ * (Linux), not getrusage's maxrss: that one keeps the parent's size at the fork, so it would report the benchmark's.
+ */
+export const peakRssHook = `data:text/javascript,${encodeURIComponent(
+  "import { readFileSync } from 'node:fs'; process.on('exit', () => process.stderr.write('PEAK_RSS ' + Number(/VmHWM:\\s+(\\d+)/.exec(readFileSync('/proc/self/status', 'utf8'))[1]) * 1024 + '\\n'))",
+)}`
 
 export function peakRssOf(run: ChildRun): number {
   const match = /PEAK_RSS (\d+)/.exec(run.stderr)
