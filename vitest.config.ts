@@ -5,6 +5,7 @@ import vue from '@vitejs/plugin-vue'
 export default defineConfig({
   plugins: [vue()],
   test: {
+    globalSetup: ['tests/support/buildCode.ts'],
     projects: [
       {
         extends: true,

@@ -1,16 +1,17 @@
 // `npm start`: set up everything on a fresh machine and run the app.
 // npm dependencies → Debian's PostgreSQL → a project-local cluster on 127.0.0.1 → schema and demo
-// data → client build → the server. Ctrl-C stops the app and the database cleanly.
+// data → server and client builds (when stale) → the built server (`node dist/server/main.js`). Ctrl-C stops the
+// app and the database cleanly.
 import { spawn, spawnSync } from 'node:child_process'
 import { readFileSync } from 'node:fs'
 import { join } from 'node:path'
+import { buildCodeIfStale } from './build.mjs'
 import { supervise } from './lib/supervise.mjs'
 import { LocalPostgres, SetupError, assertPortFree, ensureNodeModules, ensurePostgres, ownSecretFile, projectRoot, say } from './lib/services.mjs'
 
 const appPort = Number(process.env.PORT ?? 3000)
 const dbPort = Number(process.env.CAVITRACE_DB_PORT ?? 54329)
 const dataDir = process.env.CAVITRACE_DATA_DIR ?? join(projectRoot, '.data', 'dev')
-const tsx = join(projectRoot, 'node_modules', '.bin', 'tsx')
 
 /** The demo people seeded in development, and their one password (shared/auth/demoAccounts.json). */
 function demoSignIn() {
@@ -34,7 +35,7 @@ function stopServer(signal) {
 
 /** Start the server process, passing its output through (the listening line becomes our announcement). */
 function runServer(env) {
-  const server = spawn(tsx, ['server/main.ts'], { cwd: projectRoot, env, stdio: ['ignore', 'pipe', 'inherit'] })
+  const server = spawn(process.execPath, ['dist/server/main.js'], { cwd: projectRoot, env, stdio: ['ignore', 'pipe', 'inherit'] })
   current = server
   server.stdout.on('data', (chunk) => {
     const text = chunk.toString()
@@ -91,7 +92,8 @@ async function main() {
       env.SESSION_SECRET_FILE = join(dataDir, 'session-secret')
       ownSecretFile(env.SESSION_SECRET_FILE)
     }
-    runStep('migrating and seeding the database…', tsx, ['scripts/prepare.ts', '--seed'], env)
+    if (await buildCodeIfStale()) say('built the server and the command line (dist/server, dist/cli)')
+    runStep('migrating and seeding the database…', process.execPath, ['dist/server/prepare.js', '--seed'], env)
     if (process.env.CAVITRACE_SKIP_BUILD !== '1') runStep('building the client…', join(projectRoot, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'], env)
 
     process.on('SIGINT', () => stopServer('SIGINT'))

@@ -5,6 +5,7 @@ import { spawnSync } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { join } from 'node:path'
+import { buildCodeIfStale } from './build.mjs'
 import { LocalPostgres, SetupError, ensureChromium, ensureNodeModules, ensurePostgres, projectRoot, say } from './lib/services.mjs'
 
 const bin = (name) => join(projectRoot, 'node_modules', '.bin', name)
@@ -54,7 +55,9 @@ async function main() {
   const dataDir = join(projectRoot, '.data', `test-${process.pid}`)
   const results = []
   try {
-    const env = { ...process.env, NODE_ENV: 'test', CHROMIUM_PATH: chromium ?? '', CAVITRACE_TEST_OUTPUT: outputDir }
+    // The API and browser suites run the built server (dist/server), as production does.
+    await buildCodeIfStale({ announce: true })
+    const env = { ...process.env, NODE_ENV: 'test', CHROMIUM_PATH: chromium ?? '', CAVITRACE_TEST_OUTPUT: outputDir, CAVITRACE_TEST_SERVER: process.env.CAVITRACE_TEST_SERVER ?? 'built' }
     if (needsDb) {
       const port = await freePort(Number(process.env.CAVITRACE_TEST_DB_PORT ?? 54339))
       say(`starting a throwaway PostgreSQL on 127.0.0.1:${port}…`)
@@ -67,7 +70,7 @@ async function main() {
       env.CAVITRACE_TEST_PG_BIN = cluster.bin
       env.CAVITRACE_TEST_PG_SOCKET = cluster.socketDir
       env.CAVITRACE_TEST_TEMPLATE_DB = 'cavitrace_template'
-      const migrated = run(bin('tsx'), ['scripts/prepare.ts'], { ...env, DATABASE_URL: cluster.url('cavitrace_template') })
+      const migrated = run(process.execPath, ['dist/server/prepare.js'], { ...env, DATABASE_URL: cluster.url('cavitrace_template') })
       if (!migrated) throw new SetupError('could not migrate the test template database')
     }
 

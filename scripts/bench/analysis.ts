@@ -17,17 +17,10 @@ import { runInNewContext } from 'node:vm'
 import { setFlagsFromString } from 'node:v8'
 import { analyzeTrace } from '../../shared/analysis/analyzeTrace'
 import { warmUpAnalysis } from '../../shared/analysis/warmUpAnalysis'
-import { generateSweptTrace, simPresets } from '../../shared/sim'
 import { readTrace } from '../../shared/trace/readTrace'
+import { benchExport, benchPreset as preset } from '../lib/benchExports'
 
-const preset = simPresets['reference-1064']
 const RUNS = 6
-
-function csvOf(t: Float64Array, a: Float64Array, b: Float64Array): Uint8Array {
-  const lines = ['time,transmission,ramp']
-  for (let i = 0; i < t.length; i++) lines.push(`${t[i].toExponential(7)},${a[i].toExponential(5)},${b[i].toExponential(5)}`)
-  return new TextEncoder().encode(lines.join('\n'))
-}
 
 interface Run {
   readMs: number
@@ -118,8 +111,7 @@ export default async function bench(): Promise<void> {
   console.log('|---|---|---|---|---|---|')
   const memory: string[] = []
   for (const sampleCount of [100_000, 1_000_000]) {
-    const sim = generateSweptTrace({ ...preset, sampleCount, sampleIntervalSeconds: 1e-6 * (200_000 / sampleCount) * 5 })
-    const bytes = csvOf(sim.tSeconds, sim.transmissionV, sim.rampV!)
+    const bytes = benchExport(sampleCount)
     const report = measureInFreshProcess(bytes, false)
     const warmed = measureInFreshProcess(bytes, true)
     // Best by CPU time: on a shared machine wall time mostly measures the other processes.

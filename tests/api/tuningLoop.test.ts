@@ -76,7 +76,7 @@ describe('the tuning loop: cavities, uploads, analyses', () => {
 
     const tracePath = writeTempFile('scan-001.csv', csv)
     const cavityPath = writeTempFile('cavity.json', JSON.stringify(testCavityGeometry))
-    const cli = spawnSync('node_modules/.bin/tsx', ['scripts/analyze.ts', tracePath, '--cavity', cavityPath], { encoding: 'utf8' })
+    const cli = spawnSync(process.execPath, ['bin/cavitrace.mjs', 'analyze', tracePath, '--cavity', cavityPath], { encoding: 'utf8' })
     expect(cli.status).toBe(0)
     expect(analysis.result).toEqual(JSON.parse(cli.stdout))
   })

@@ -16,8 +16,10 @@ export async function uploadOnlyLab(env: Record<string, string>): Promise<{ serv
 
 /** A stand-alone `npm run worker` process on the test database; resolves once it takes jobs. */
 export function startWorker(databaseUrl: string, env: Record<string, string> = {}): Promise<{ child: ChildProcess; log: string[] }> {
-  // `node --import tsx` (not the tsx launcher, which forks a second process) so a kill reaches the worker itself.
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/worker.ts'], {
+  // The built worker when the suite runs the built server; else `node --import tsx` (not the tsx launcher, which
+  // forks a second process) so a kill reaches the worker itself.
+  const entry = process.env.CAVITRACE_TEST_SERVER === 'built' ? ['dist/server/worker.js'] : ['--import', 'tsx', 'server/worker.ts']
+  const child = spawn(process.execPath, entry, {
     env: { ...process.env, NODE_ENV: 'test', DATABASE_URL: databaseUrl, WORKER_THREADS: '1', ANALYSIS_JOB_TIMEOUT_SECONDS: '15', LOG_LEVEL: 'info', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
