@@ -16,6 +16,9 @@ import { startCaptureSmtp, type CaptureSmtp } from './mail/captureSmtp'
 import { createMailer, type Mailer } from './mail/mailer'
 import { startAlertMailDispatcher, type AlertMailDispatcher } from './notifications/alertMailDispatcher'
 
+/** For tests: how many planner threads this process has ended (read from the same build as the server). */
+export { planThreadsEnded } from './plans/planPool'
+
 export interface RunningServer {
   /** Base URL, e.g. http://127.0.0.1:3000 */
   url: string

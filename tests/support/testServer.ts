@@ -22,7 +22,8 @@ export interface TestServer extends RunningServer {
  */
 type ServerModule = typeof import('../../server/server')
 
-async function serverModule(): Promise<ServerModule> {
+/** The server module the tests run: built or sources (see above). */
+export async function serverModule(): Promise<ServerModule> {
   if (process.env.CAVITRACE_TEST_SERVER !== 'built') return import('../../server/server')
   const built = fileURLToPath(new URL('../../dist/server/server.js', import.meta.url))
   return (await import(/* @vite-ignore */ built)) as ServerModule
