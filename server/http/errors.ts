@@ -37,7 +37,8 @@ export function isDatabaseUnavailable(error: unknown): boolean {
   const { code, message, name } = (error ?? {}) as { code?: string; message?: string; name?: string }
   if (code && unreachableCodes.has(code)) return true
   if (name === 'KnexTimeoutError') return true
-  return typeof message === 'string' && /Connection terminated|Timeout acquiring a connection|connect ECONNREFUSED|the database system is (starting up|shutting down)/.test(message)
+  // "timeout expired": pg's connect timeout, seen while PostgreSQL stops or starts (found by databaseOutage.test.ts).
+  return typeof message === 'string' && /Connection terminated|Timeout acquiring a connection|connect ECONNREFUSED|timeout expired|not queryable|the database system is (starting up|shutting down)/.test(message)
 }
 
 /** PostgreSQL refused a character (a NUL byte, or bytes that are not UTF-8) in the input. */

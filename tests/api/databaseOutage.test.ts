@@ -31,7 +31,7 @@ describe('a database outage under uploads', () => {
     const setup = createDb(cluster.url('outage'), { poolMax: 2 })
     await setup.migrate.latest(migrationConfig)
     await setup.destroy()
-    server = await startServer(loadConfig({ NODE_ENV: 'test', PORT: '0', LOG_LEVEL: 'silent', DATABASE_URL: cluster.url('outage'), WORKER_THREADS: '0', DIGEST_SCHEDULE: 'off' }), { logger: pino({ level: 'silent' }) })
+    server = await startServer(loadConfig({ NODE_ENV: 'test', PORT: '0', LOG_LEVEL: 'silent', DATABASE_URL: cluster.url('outage'), WORKER_THREADS: '0', DIGEST_SCHEDULE: 'off' }), { logger: pino({ level: process.env.CAVITRACE_TEST_LOG ?? 'silent' }) })
     actor = await createActor(server.db, 'lead')
     const created = await request(server.url).post('/api/cavities').set('Authorization', actor.authorization).send({ name: 'Outage cavity', ...testCavityGeometry })
     cavityId = created.body.cavity.id
