@@ -1,5 +1,5 @@
 import { computeCavityModel, transverseOffsetFsr, type CavityGeometry } from '../cavity'
-import { EngineError, type EngineWarning } from '../errors'
+import { type EngineWarning } from '../errors'
 import type { Trace } from '../trace/types'
 import { selectSweep } from '../sweep/selectSweep'
 import { findSweepInData } from '../sweep/findSweepInData'
@@ -17,7 +17,6 @@ import { chooseComb, unlessLadder } from '../orders/chooseComb'
 import { orderFamilies } from '../orders/orderFamilies'
 import { assignOrders, type OrderLabel } from '../orders/assignOrders'
 import { directionByLineModel } from '../orders/directionByLineModel'
-import { gouyByFolding } from '../orders/gouyByFolding'
 import { MAX_LINE_CHI_SQUARE, MAX_MODEL_CHI_SQUARE, measureOrderShares } from '../orders/measureOrderShares'
 import { fundamentalOnlyShares, peakAreaShares } from '../orders/peakAreaShares'
 import { readSpectrum } from '../orders/readSpectrum'
@@ -27,6 +26,8 @@ import { finesseFromRingdown, ringLobes, sweepSpeedOf } from './finesseFromRingd
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings, SWEEP_SPEED_RINGING } from './collectWarnings'
+import { measuredOrders, measureOrSkip, orientedFraction, pipelineWarnings } from './pipelineHelpers'
+import { weakOrderPhase } from './weakOrderPhase'
 import { readingDoubts, unsteadyOrder, unassignedShareOf } from './readingDoubts'
 import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 
@@ -46,13 +47,6 @@ const MIN_MODEL_FINESSE = 3
 const LABEL_SIGNIFICANCE = 5
 /** … or this many σ when its order is reported (the matched filter over all FSRs finds it). */
 const REPORT_SIGNIFICANCE_PEAK = 3
-/**
- * The folded weak lines set ψ when they explain this much more χ² there than at the geometry's ψ (25: a 5σ line,
- * common practice for a detection among many trials).
- */
-const FOLDED_SIGNIFICANCE = 25
-/** … and the other direction's best phase explains this much less (3σ), or the reading is mirrored. */
-const FOLDED_MIRROR_MARGIN = 9
 /** A reading's mirror image must cost this much more (in units of the tallest resonance's height) to settle the direction. */
 const DIRECTION_COST = 0.03
 
@@ -234,37 +228,27 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     labels = assignment.labels
     direction = assignment.direction
     orderResidual = assignment.residualRmsFsr
-    // 7b. Weak orders: when no resonance was found at a low order's place to measure ψ, the lines summed over every
-    // FSR may still hold it (a wrong length entered and a well-matched beam: the weak orders then sit off their
-    // predicted places and would be measured as nothing). Not on lines reshaped by fast structure or a slow
-    // detector: a distorted TEM00 leaves lobes at fixed places.
+    // 7b. ψ from the weak orders summed over every FSR (weakOrderPhase), when no low order was found one by one; not
+    // on lines reshaped by fast structure or a slow detector (a distorted TEM00 leaves lobes at fixed places).
     const lowOrderFound = labels.some((l) => l.kind === 'carrier' && l.order !== null && l.order > 0 && l.order <= ALWAYS_MEASURED_ORDERS)
     const speed = sweepSpeedOf(calibration, model, finesse?.value ?? null)
     const reshaped = tall.spikeTrains === true || comb.members.some((k) => measured[k].lobeCount >= 3) || structure.ownerOf.size > 0 || (speed !== null && speed.speed >= SWEEP_SPEED_RINGING)
-    if (finesse && comb.members.length >= 2 && !lowOrderFound && !reshaped) {
-      const span = windowOf(calibration, direction, gouy)
-      const folded = gouyByFolding({
-        signal, sigmaV, calibration, startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, firstIndex: span.firstIndex, lastIndex: span.lastIndex,
-        direction, finesse: finesse.value, predictedGouyRad: gouy, bothDirections: options.sweepDirection === undefined,
-      })
-      if (folded && folded.chiSquareExplained - folded.chiSquareAtPredicted >= FOLDED_SIGNIFICANCE && Math.abs(folded.gouyRad / gouy - 1) > 0.002) {
-        // Read the other way, orders N at 1 − N·ψ′/π may meet the same lines (orders 2 and 4 on 1 and 2): the lines
-        // are then measured all the same, but neither ψ nor the direction is claimed.
-        const mirrored = folded.mirror !== null && folded.chiSquareExplained - folded.mirror.chiSquareExplained < FOLDED_MIRROR_MARGIN
-        gouy = folded.gouyRad
-        gouyFolded = !mirrored
-        gouyMirrored = mirrored
-        if (folded.direction !== direction || mirrored) {
-          directionEvidence = mirrored
-            ? `No transverse resonance stands out on its own; summed over every FSR the weak orders stand at their places read either way (sweep ${folded.direction} with ψ = ${folded.gouyRad.toFixed(3)} rad, or ${folded.direction === 'up' ? 'down' : 'up'} with ψ = ${folded.mirror!.gouyRad.toFixed(3)} rad): the direction is not settled, and the weak orders are measured where either puts them.`
-            : `No transverse resonance stands out on its own; summed over every FSR the weak orders stand at their places read ${folded.direction}.`
-        }
-        direction = folded.direction
-        // The resonances found are labelled again at the places the phase found puts the orders.
-        const again = assign(calibration, gouy, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 0, [folded.direction])
-        labels = again.labels
-        orderResidual = again.residualRmsFsr
-      }
+    const weak = finesse && comb.members.length >= 2 && !lowOrderFound && !reshaped
+      ? weakOrderPhase({
+          signal, sigmaV, calibration, startSeconds: timeAt(sweep.startIndex), dtSeconds: dt, ...windowOf(calibration, direction, gouy),
+          direction, finesse: finesse.value, predictedGouyRad: gouy, bothDirections: options.sweepDirection === undefined,
+        })
+      : null
+    if (weak) {
+      gouy = weak.gouyRad
+      gouyFolded = weak.claimed
+      gouyMirrored = !weak.claimed
+      if (weak.evidence) directionEvidence = weak.evidence
+      direction = weak.direction
+      // The resonances found are labelled again at the places the phase found puts the orders.
+      const again = assign(calibration, gouy, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 0, [weak.direction])
+      labels = again.labels
+      orderResidual = again.residualRmsFsr
     }
   } else {
     labels = measured.map((_, i) =>
@@ -378,25 +362,13 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const warnings: EngineWarning[] = [
     ...trace.warnings,
     ...doubts.warnings,
-    // (A sweep fast enough to make the cavity ring explains such lobes itself: its own warning says so.)
-    ...(structure.ownerOf.size && structure.periodSeconds && !(sweepSpeed && sweepSpeed.speed >= SWEEP_SPEED_RINGING)
-      ? [{
-          code: 'detector_ringing',
-          message: `${structure.ownerOf.size} small peaks follow the resonances at a constant spacing of ${fmt(structure.periodSeconds * 1e6)} µs (${fmt(1e-3 / structure.periodSeconds)} kHz), each lower than the one before: the detector or its amplifier rings. They are folded into the resonance they follow (their area counts with it) and are not read as resonances. A detector this slow also reshapes the lines, so the linewidth and the finesse read wrong (by some tens of per cent); a faster photodiode or a lower amplifier gain removes the ringing.`,
-        }]
-      : []),
-    ...(shares.splitFsr > 0
-      ? [{
-          code: 'split_orders',
-          message: `The transverse orders are split: order N shows up to N + 1 lines about ${fmt(shares.splitFsr * (finesse?.value ?? 0))} linewidths (${shares.splitFsr.toPrecision(2)} FSR) apart, as astigmatism makes the Gouy phase differ between the two transverse axes (tilted or off-axis mirrors). Each line is measured and the order's power is their sum.`,
-        }]
-      : []),
-    ...(comb.ladderPossible
-      ? [{
-          code: 'comb_or_ladder',
-          message: `The two tall resonances were read as two TEM00 one FSR apart, but they fit one TEM00 and its order-1 mode just as well (the smaller is ${fmt((100 * Math.min(...comb.members.map((k) => measured[k].heightV))) / Math.max(...comb.members.map((k) => measured[k].heightV)))} % of the taller and nothing else is seen). Sweep over more than one FSR so that a third TEM00 or the other orders decide it.`,
-        }]
-      : []),
+    ...pipelineWarnings({
+      // (A sweep fast enough to make the cavity ring explains such lobes itself: its own warning says so.)
+      ringingDetector: structure.ownerOf.size && structure.periodSeconds && !(sweepSpeed && sweepSpeed.speed >= SWEEP_SPEED_RINGING) ? { count: structure.ownerOf.size, periodSeconds: structure.periodSeconds } : null,
+      splitFsr: shares.splitFsr,
+      finesse: finesse?.value ?? 0,
+      ladderHeights: comb.ladderPossible ? comb.members.map((k) => measured[k].heightV) : null,
+    }),
     ...collectWarnings({
       part,
       signal,
@@ -472,24 +444,4 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     channels: { transmission: channels.transmission.name, ramp: channels.ramp?.name ?? null },
     warnings,
   }
-}
-
-/** Orders measured at their predicted places: the low ones always, higher ones when a resonance was matched to them. */
-function measuredOrders(leaders: number[], labels: OrderLabel[], always: number): number[] {
-  const seen = new Set(labels.filter((l) => l.kind === 'carrier' && l.order !== null).map((l) => l.order!))
-  return leaders.filter((order) => order <= always || seen.has(order))
-}
-
-/** The line model's shares, or null when it finds no TEM00 power to measure (other errors propagate). */
-function measureOrSkip<T>(measure: () => T): T | null {
-  try {
-    return measure()
-  } catch (error) {
-    if (error instanceof EngineError && error.code === 'no_resonances') return null
-    throw error
-  }
-}
-
-function orientedFraction(positionFsr: number, direction: 'up' | 'down' | 'unknown'): number {
-  return direction === 'down' ? frac(-positionFsr) : frac(positionFsr)
 }
