@@ -187,7 +187,12 @@ export interface UnsteadyOrder {
  */
 export function unsteadyOrder(peaks: AnalysisPeak[], sigmaV: number): UnsteadyOrder | null {
   const byOrder = new Map<number, AnalysisPeak[]>()
-  for (const p of peaks) if (p.kind === 'carrier' && p.order !== null) byOrder.set(p.order, [...(byOrder.get(p.order) ?? []), p])
+  for (const p of peaks) {
+    if (p.kind !== 'carrier' || p.order === null) continue
+    const members = byOrder.get(p.order)
+    if (members) members.push(p)
+    else byOrder.set(p.order, [p])
+  }
   let worst: UnsteadyOrder | null = null
   for (const [order, members] of byOrder) {
     const taller = members.reduce((a, b) => (b.height > a.height ? b : a))

@@ -83,11 +83,7 @@ export function fitOrderPowers(signalV: Float64Array, nu: Float64Array, lines: P
   const p = m + terms
   const order = lines.map((_, j) => j).sort((a, b) => lines[a].nu - lines[b].nu)
   const sortedNu = Float64Array.from(order, (j) => lines[j].nu)
-  const shape: LineShape = {
-    k2: ((2 * finesse) / Math.PI) ** 2,
-    delta: sidebands && sidebands.ratio > 0 ? sidebands.offsetFsr : 0,
-    ratio: sidebands && sidebands.ratio > 0 ? sidebands.ratio : 0,
-  }
+  const shape = lineShapeOf(finesse, sidebands)
   const support = Math.min(0.5, supportLinewidths / finesse) + shape.delta
   const sortedOrder = Int32Array.from(order)
 
@@ -152,11 +148,7 @@ export function lineModelValues(
   options: Pick<FitOrderPowersOptions, 'finesse' | 'sidebands' | 'supportLinewidths'>,
 ): Float64Array {
   const { finesse, sidebands = null, supportLinewidths = 15 } = options
-  const shape: LineShape = {
-    k2: ((2 * finesse) / Math.PI) ** 2,
-    delta: sidebands && sidebands.ratio > 0 ? sidebands.offsetFsr : 0,
-    ratio: sidebands && sidebands.ratio > 0 ? sidebands.ratio : 0,
-  }
+  const shape = lineShapeOf(finesse, sidebands)
   const support = Math.min(0.5, supportLinewidths / finesse) + shape.delta
   const order = lines.map((_, j) => j).sort((a, b) => lines[a].nu - lines[b].nu)
   const out = new Float64Array(nu.length)
@@ -177,6 +169,11 @@ interface LineShape {
   k2: number
   delta: number
   ratio: number
+}
+
+function lineShapeOf(finesse: number, sidebands: { offsetFsr: number; ratio: number } | null): LineShape {
+  const withSidebands = sidebands !== null && sidebands.ratio > 0
+  return { k2: ((2 * finesse) / Math.PI) ** 2, delta: withSidebands ? sidebands.offsetFsr : 0, ratio: withSidebands ? sidebands.ratio : 0 }
 }
 
 function unitLine(z: number, shape: LineShape): number {
