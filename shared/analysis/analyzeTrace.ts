@@ -26,9 +26,10 @@ import { finesseFromRingdown, ringLobes, sweepSpeedOf } from './finesseFromRingd
 import { pickChannels } from './pickChannels'
 import { readingOfShares } from './readingOfShares'
 import { collectWarnings, SWEEP_SPEED_RINGING } from './collectWarnings'
-import { measuredOrders, measureOrSkip, orientedFraction, pipelineWarnings } from './pipelineHelpers'
+import { transverseHeight, measuredOrders, measureOrSkip, orientedFraction, pipelineWarnings } from './pipelineHelpers'
 import { weakOrderPhase } from './weakOrderPhase'
 import { readingDoubts, unsteadyOrder, unassignedShareOf } from './readingDoubts'
+import { familiesDisagree, lowOrderMergedWithTem00 } from './readingChecks'
 import type { AnalysisPeak, AnalysisResult, AnalyzeOptions } from './types'
 
 /** Highest transverse order the assignment considers. */
@@ -188,9 +189,15 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
           .filter(({ l }, i) => l.kind === 'carrier' && l.order !== null && votes(i))
           .map(({ m, l }) => ({ tSeconds: tOf(m), order: l.order!, weight: Math.min(m.heightV / sigmaV, 200) ** 2 }))
         const refined = calibrateWithOrders(points, cal, assignment.direction, readingGouy, { maxGouyShiftRad: maxShift, outlierFsr: Math.max(1e-4, 0.5 * linewidthFsr) })
+        const tight = (c: SweepCalibration, p: number) => assign(c, p, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * readingGouy, directions)
+        const next = tight(refined.calibration, refined.gouyRad)
+        // A refinement that loses most of the transverse height the map it started from labels (judged as tightly) went
+        // astray: a low-degree polynomial may undo a bend of the sweep that the families' links had measured.
+        const kept = tight(cal, psi)
+        if (transverseHeight(next.labels, measured) < 0.5 * transverseHeight(kept.labels, measured)) return { assignment: kept, calibration: cal, gouy: psi }
         cal = refined.calibration
         psi = refined.gouyRad
-        assignment = assign(cal, psi, Math.min(toleranceFsr, Math.max(0.01, 3 * linewidthFsr)), 1e-3 * readingGouy, directions)
+        assignment = next
       }
       return { assignment, calibration: cal, gouy: psi }
     }
@@ -286,21 +293,14 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
       })
   // A finesse of a few means no line shape to model (a reading whose calibration went astray): count areas instead.
   let shares = calibration && finesse && finesse.value >= MIN_MODEL_FINESSE && window ? measureOrSkip(() => lineModel(calibration!, finesse!, window)) : null
-  // The line model may find no TEM00 power where the reading put it (a reading gone wrong): the resonances found
-  // are then counted one by one, and the doubt is reported below.
+  // No TEM00 power where the reading put it (a reading gone wrong): the resonances found are counted one by one.
   const lineModelFailed = calibration !== null && finesse !== null && window !== null && shares === null
   if (!shares) shares = (calibration && window && peakAreaShares(measured, labels, positions, calibration, [window.first, window.last], toleranceFsr, dt, tOf)) || fundamentalOnlyShares(measured, comb.members)
-  // (The line model's own fraction, kept to compare with the fallback's.)
-  let modelFraction: number | null = null
-  if (calibration && shares.reducedChiSquare !== null && shares.reducedChiSquare > MAX_MODEL_CHI_SQUARE) {
-    // The lines do not follow one shared shape (split, ringing or distorted resonances, a poorly followed sweep):
-    // fall back to the integrated power of each resonance found, wherever it sits.
-    const fallback = peakAreaShares(measured, labels, positions, calibration, [window!.first, window!.last], toleranceFsr, dt, tOf)
-    if (fallback) {
-      modelFraction = shares.fundamentalFraction
-      shares = { ...fallback, reducedChiSquare: shares.reducedChiSquare }
-    }
-  }
+  // Lines that do not follow one shared shape (split, ringing or distorted resonances, a poorly followed sweep): the
+  // integrated power of each resonance found, wherever it sits, instead (the model's own fraction kept to compare).
+  const fallback = calibration && shares.reducedChiSquare !== null && shares.reducedChiSquare > MAX_MODEL_CHI_SQUARE ? peakAreaShares(measured, labels, positions, calibration, [window!.first, window!.last], toleranceFsr, dt, tOf) : null
+  const modelFraction = fallback ? shares.fundamentalFraction : null
+  if (fallback) shares = { ...fallback, reducedChiSquare: shares.reducedChiSquare }
   const { orders, fundamentalFraction } = shares
   const useHeight = shares.measure === 'height'
   // The finesse of the joint line model replaces the TEM00 fits' when the model follows the data.
@@ -340,6 +340,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     }
   })
 
+  const heightsCompare = samplesPerLinewidth >= 4 && !fastStructure && !structure.ownerOf.size // (well-sampled, no fast structure)
   const doubts = readingDoubts({
     readings,
     fundamentalFraction,
@@ -353,11 +354,13 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
     lineModelFailed,
     lineModelChiSquare: shares.reducedChiSquare,
     calibrated: calibration !== null,
+    sweepRangeFsr: calibration ? [frequencyAt(calibration, timeAt(sweep.startIndex)), frequencyAt(calibration, timeAt(sweep.endIndex - 1))] : null,
     wholePeriodCounted: calibration === null || window !== null,
     fundamentalCount: comb.members.length,
     lineModelFraction: modelFraction,
-    // (Heights compare only on well-sampled lines without fast structure.)
-    unsteady: samplesPerLinewidth >= 4 && !fastStructure && !structure.ownerOf.size ? unsteadyOrder(peaks, sigmaV) : null,
+    unsteady: heightsCompare ? unsteadyOrder(peaks, sigmaV) : null,
+    familiesDisagree: heightsCompare ? familiesDisagree(peaks, sigmaV) : null,
+    mergedLowOrder: calibration ? lowOrderMergedWithTem00(gouy, Math.max(linewidthFsr, (3 * dt) / Math.abs(calibration.fsrSeconds))) : null,
   })
   const warnings: EngineWarning[] = [
     ...trace.warnings,

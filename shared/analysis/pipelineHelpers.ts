@@ -8,6 +8,13 @@ export function measuredOrders(leaders: number[], labels: OrderLabel[], always: 
   return leaders.filter((order) => order <= always || seen.has(order))
 }
 
+/** Summed height of the resonances a labelling gives a transverse order (1 and up), volts. */
+export function transverseHeight(labels: OrderLabel[], measured: { heightV: number }[]): number {
+  let sum = 0
+  for (let i = 0; i < labels.length; i++) if (labels[i].kind === 'carrier' && (labels[i].order ?? 0) > 0) sum += measured[i].heightV
+  return sum
+}
+
 /** The line model's shares, or null when it finds no TEM00 power to measure (other errors propagate). */
 export function measureOrSkip<T>(measure: () => T): T | null {
   try {

@@ -3,6 +3,7 @@ import type { EngineWarning } from '../errors'
 import type { SpectrumReading } from '../orders/readSpectrum'
 import type { AnalysisPeak } from './types'
 import { fmt } from '../numbers'
+import type { FamilyDisagreement } from './readingChecks'
 
 /**
  * A rival reading that costs less than this much more than the best (in units of the tallest resonance's height:
@@ -91,6 +92,12 @@ export function readingDoubts(input: {
   wholePeriodCounted: boolean
   /** Orders whose labelled resonances differ in height far beyond the noise (see unsteadyOrder); null when none. */
   unsteady: UnsteadyOrder | null
+  /** Transverse families that change height from period to period unlike TEM00 (see familiesDisagree); null when none. */
+  familiesDisagree?: FamilyDisagreement | null
+  /** A strong low order whose line merges with TEM00's (see lowOrderMergedWithTem00); null when none. */
+  mergedLowOrder?: { order: number; linewidths: number } | null
+  /** The sweep's span on the calibrated axis (FSR units, TEM00 at whole numbers), or null when uncalibrated. */
+  sweepRangeFsr?: [number, number] | null
 }): ReadingDoubts {
   const warnings: EngineWarning[] = []
   const [best, ...others] = input.readings
@@ -121,14 +128,14 @@ export function readingDoubts(input: {
     // Two measures of the same power that disagree by more than the 3 points a result may be off unflagged.
     const measuresDisagree = input.lineModelFraction !== null && Math.abs(input.lineModelFraction - input.fundamentalFraction) > MEASURES_DISAGREE
     const poorModel = input.lineModelChiSquare === null || input.lineModelChiSquare >= POOR_MODEL_CHI_SQUARE
-    const unexplained = input.lineModelFailed || input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel) || input.unsteady !== null || !input.calibrated || !input.wholePeriodCounted || measuresDisagree
+    const unexplained = input.lineModelFailed || input.unassignedHeightShare >= UNASSIGNED_DOUBT || (best !== undefined && best.cost >= POOR_READING_COST && poorModel) || input.unsteady !== null || !!input.familiesDisagree || !!input.mergedLowOrder || !input.calibrated || !input.wholePeriodCounted || measuresDisagree
     if (unexplained) {
       const u = input.unsteady
       // The lead names what is in doubt: the reading itself, or (the reading standing) only the measure of power.
       const measureOnly = measuresDisagree && input.calibrated && input.wholePeriodCounted && input.unassignedHeightShare < UNASSIGNED_DOUBT
       const lead = !input.calibrated || !input.wholePeriodCounted
         ? 'The orders could not be counted'
-        : measureOnly
+        : measureOnly || (!!input.mergedLowOrder && !input.familiesDisagree && !u && input.unassignedHeightShare < UNASSIGNED_DOUBT)
           ? 'The resonances are read, but their power cannot be measured reliably'
           : 'No reading of the resonances explains them well'
       const what = !input.calibrated
@@ -141,7 +148,11 @@ export function readingDoubts(input: {
         ? 'the line model finds no TEM00 power where the reading puts TEM00, so the resonances were counted one by one'
         : u && input.unassignedHeightShare < UNASSIGNED_DOUBT
           ? `the resonances read as ${u.order === 0 ? 'TEM00' : `order ${u.order}`} differ in height ${fmt(u.ratio)}-fold (${u.tallerV.toPrecision(2)} V and ${u.lowerV.toPrecision(2)} V), while one mode resonates once every FSR with one height: the period or the orders may be misread`
-          : `${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place`
+          : input.familiesDisagree && input.unassignedHeightShare < UNASSIGNED_DOUBT
+            ? familiesText(input.familiesDisagree)
+            : input.mergedLowOrder && input.unassignedHeightShare < UNASSIGNED_DOUBT
+              ? `order ${input.mergedLowOrder.order} stands ${fmt(input.mergedLowOrder.linewidths)} linewidths from TEM00, so their lines merge and the TEM00 fraction may hold order ${input.mergedLowOrder.order}'s power`
+              : `${fmt(100 * input.unassignedHeightShare)} % of the resonance height stands at no order's predicted place`
       warnings.push({
         code: 'ambiguous_reading',
         message: `${lead}: ${what}${input.lineModelChiSquare !== null ? `, and the line model fits the samples with χ²ᵥ = ${fmt(input.lineModelChiSquare)}` : ''}. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would help: a sweep over two or more FSRs, a check of the cavity length and radii, and a look at the trace for fine structure (a ringing detector, a laser on two modes).`,
@@ -163,13 +174,31 @@ export function readingDoubts(input: {
   // geometry and a reading with another TEM00 family is not far behind, nothing checks that the right family was
   // taken (on the tuning cases of seeds 7100–50000, five of the eight wrong readings left unflagged by the rules above
   // had a geometry that disagreed and one or two TEM00 in view; this rule names three of them and seven right ones).
-  if (impliedLengthMm !== null && input.fundamentalCount < 3 && !warnings.some((w) => w.code === 'ambiguous_reading') && otherFamilyWithin(input.readings, RIVAL_WHEN_GEOMETRY_DISAGREES)) {
+  if (impliedLengthMm !== null && input.fundamentalCount < 3 && !warnings.some((w) => w.code === 'ambiguous_reading') && (otherFamilyWithin(input.readings, RIVAL_WHEN_GEOMETRY_DISAGREES) || oneLink(input.readings))) {
     warnings.unshift({
       code: 'ambiguous_reading',
       message: `With ${input.fundamentalCount === 1 ? 'one TEM00' : 'two TEM00'} in view, the transverse orders both calibrate the sweep and measure the Gouy phase, and that phase disagrees with the entered geometry: another family of resonances may be TEM00. The TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than its stated error. What would decide: a sweep over three or more FSRs, or a check of the cavity length and mirror radii.`,
     })
   }
+  const expected = expectedFundamentals(input.sweepRangeFsr ?? null)
+  if (expected > input.fundamentalCount && !warnings.some((w) => w.code === 'ambiguous_reading')) {
+    warnings.unshift({
+      code: 'ambiguous_reading',
+      message: `At the period the reading takes for one FSR, the sweep spans ${fmt(Math.abs(input.sweepRangeFsr![1] - input.sweepRangeFsr![0]))} FSRs and should cross TEM00 ${expected} times, but only ${input.fundamentalCount} TEM00 resonance${input.fundamentalCount === 1 ? ' was' : 's were'} found there: the resonances taken as TEM00 may be a TEM00 and a transverse order, so the period and the TEM00 fraction (${fmt(100 * input.fundamentalFraction)} %) may be wrong by more than the stated error. What would decide: a sweep over more FSRs, and a check of the cavity length and mirror radii.`,
+    })
+  }
   return { warnings, alternative, impliedLengthMm }
+}
+
+/** A TEM00 this close to either end of the sweep (FSR units) may be cut off and is not expected. */
+const EDGE_MARGIN_FSR = 0.03
+
+/** TEM00 resonances the calibrated sweep must cross: the whole numbers inside its span, less the margins. */
+function expectedFundamentals(range: [number, number] | null): number {
+  if (!range || !range.every(Number.isFinite)) return 0
+  const lo = Math.min(...range) + EDGE_MARGIN_FSR
+  const hi = Math.max(...range) - EDGE_MARGIN_FSR
+  return hi < lo ? 0 : Math.max(0, Math.floor(hi) - Math.ceil(lo) + 1)
 }
 
 export interface UnsteadyOrder {
@@ -207,6 +236,20 @@ export function unsteadyOrder(peaks: AnalysisPeak[], sigmaV: number): UnsteadyOr
     if (!worst || ratio > worst.ratio) worst = { order, ratio, tallerV, lowerV }
   }
   return worst
+}
+
+/**
+ * The best reading's period rests on one pair of resonances (one family repeating once): with the geometry also
+ * disagreeing, nothing independent confirms which family is TEM00 (seeds 40000–60000: two wrong readings left
+ * unflagged; five right ones of 600 flagged as well).
+ */
+function oneLink(readings: SpectrumReading[]): boolean {
+  return readings.length > 0 && readings[0].calibratingLinks <= 1
+}
+
+function familiesText(f: FamilyDisagreement): string {
+  const orders = f.orders.map((o) => `order ${o.order} ×${o.ratio.toFixed(2)}`).join(', ')
+  return `from one FSR period to the next TEM00 changes height ×${f.fundamentalRatio.toFixed(2)} but ${orders}, while every line of a real reading scales alike with the laser power: the resonances taken as one family are likely not one mode, so the period or the TEM00 family may be misread`
 }
 
 /** A rival reading with another TEM00 family within this cost of the best one (see RIVAL_WHEN_GEOMETRY_DISAGREES). */
