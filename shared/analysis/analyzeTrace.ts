@@ -142,7 +142,7 @@ export function analyzeTrace(trace: Trace, cavity: CavityGeometry, options: Anal
   const windowOf = (cal: SweepCalibration, d: 'up' | 'down', psi: number) => {
     const sign = d === 'up' ? 1 : -1
     const offsets = families0.leaders.filter((order) => order > 0 && order <= ALWAYS_MEASURED_ORDERS).map((order) => sign * transverseOffsetFsr(order, psi))
-    const w = countingWindow(comb.fsrIndex, [frequencyAt(cal, timeAt(sweep.startIndex)), frequencyAt(cal, timeAt(sweep.endIndex - 1))], offsets)
+    const w = countingWindow(comb.fsrIndex, [frequencyAt(cal, timeAt(sweep.startIndex)), frequencyAt(cal, timeAt(sweep.endIndex - 1))], offsets, sweep.endIndex - sweep.startIndex)
     return w ? { firstIndex: w.first, lastIndex: w.last } : { firstIndex: 0, lastIndex: 0 }
   }
 
